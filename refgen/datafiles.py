@@ -1,0 +1,114 @@
+"""Loaders for refgen's own data tables (refgen/data/*.csv), each read once on first use and cached.
+
+Every table opens with a comment line naming its source; every row carries a source column. A malformed row
+raises DataFileError naming the file and line, never a silent drop. See refgen/data/README.md.
+"""
+from __future__ import annotations
+
+import csv
+import functools
+import io
+from importlib import resources
+from types import MappingProxyType
+
+from .errors import DataFileError
+
+
+def _read_rows(filename: str) -> list[tuple[int, dict[str, str]]]:
+    """Rows of a data CSV as (line number, dict), skipping '#' comment lines."""
+    text = resources.files("refgen.data").joinpath(filename).read_text(encoding="utf-8")
+    lines = [(i + 1, line) for i, line in enumerate(text.splitlines()) if line.strip() and not line.startswith("#")]
+    reader = csv.reader(io.StringIO("\n".join(line for _, line in lines)))
+    rows = list(reader)
+    header = rows[0]
+    out = []
+    for (lineno, _), row in zip(lines[1:], rows[1:]):
+        if len(row) != len(header):
+            raise DataFileError(f"{filename}, line {lineno}: expected {len(header)} columns, found {len(row)}")
+        out.append((lineno, dict(zip(header, row))))
+    return out
+
+
+def _number(filename: str, lineno: int, row: dict, column: str, optional: bool = False) -> float | None:
+    """One numeric cell; blank is allowed only where ``optional``."""
+    text = row[column].strip()
+    if not text and optional:
+        return None
+    try:
+        return float(text)
+    except ValueError:
+        raise DataFileError(f"{filename}, line {lineno}: column {column} is not a number: '{text}'") from None
+
+
+@functools.cache
+def constants() -> MappingProxyType:
+    """Physical constants by name, in internal units (constants.csv)."""
+    return MappingProxyType({row["name"]: _number("constants.csv", n, row, "value") for n, row in _read_rows("constants.csv")})
+
+
+def constant(name: str) -> float:
+    """One physical constant from constants.csv."""
+    return constants()[name]
+
+
+@functools.cache
+def elements() -> tuple[dict, ...]:
+    """Elements Z = 1-92 (elements.csv), indexed so that elements()[Z - 1] is element Z."""
+    out = []
+    for n, row in _read_rows("elements.csv"):
+        z = int(_number("elements.csv", n, row, "Z"))
+        if z != len(out) + 1:
+            raise DataFileError(f"elements.csv, line {n}: Z={z} out of order")
+        out.append(MappingProxyType({
+            "Z": z, "symbol": row["symbol"], "name": row["name"],
+            "A": _number("elements.csv", n, row, "atomic_weight"),
+            "density": _number("elements.csv", n, row, "density_g_cm3"),
+            "state": row["state"], "I_eV": _number("elements.csv", n, row, "mean_excitation_eV"),
+            "source": row["source"],
+        }))
+    return tuple(out)
+
+
+@functools.cache
+def element_by_symbol() -> MappingProxyType:
+    """Element records keyed by chemical symbol."""
+    return MappingProxyType({e["symbol"]: e for e in elements()})
+
+
+@functools.cache
+def particles() -> MappingProxyType:
+    """Built-in particle species by key (particles.csv)."""
+    out = {}
+    for n, row in _read_rows("particles.csv"):
+        out[row["key"]] = MappingProxyType({
+            "key": row["key"], "label": row["label"], "mass": _number("particles.csv", n, row, "mass_MeV"),
+            "charge": int(_number("particles.csv", n, row, "charge")),
+            "aliases": tuple(a for a in row["aliases"].split(";") if a), "source": row["source"],
+        })
+    return MappingProxyType(out)
+
+
+@functools.cache
+def library_materials() -> MappingProxyType:
+    """The built-in material library by key (materials.csv)."""
+    out = {}
+    for n, row in _read_rows("materials.csv"):
+        out[row["key"]] = MappingProxyType({
+            "key": row["key"], "description": row["description"], "composition": row["composition"],
+            "density": _number("materials.csv", n, row, "density_g_cm3"), "state": row["state"],
+            "I_eV": _number("materials.csv", n, row, "mean_excitation_eV", optional=True),
+            "W_eV": _number("materials.csv", n, row, "pair_energy_eV", optional=True),
+            "source": row["source"], "caveat": row["caveat"], "line": n,
+        })
+    return MappingProxyType(out)
+
+
+@functools.cache
+def density_effect_parameters() -> MappingProxyType:
+    """Sternheimer-Berger-Seltzer (1984) density-effect parameters by library material key."""
+    out = {}
+    for n, row in _read_rows("density_effect.csv"):
+        out[row["material"]] = MappingProxyType({k: _number("density_effect.csv", n, row, k) for k in
+                                                 ("mean_excitation_eV", "cbar", "x0", "x1", "a", "k", "delta0")}
+                                                | {"source": row["source"]})
+    return MappingProxyType(out)
