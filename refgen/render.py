@@ -9,6 +9,9 @@ import json
 import math
 from importlib import resources
 
+import csv
+import io
+
 import jinja2
 import markdown
 from markupsafe import Markup, escape
@@ -88,6 +91,46 @@ def _finite(value):
     return value
 
 
+def csv_bytes(header: list[str], rows: list[list], comment: str) -> bytes:
+    """A CSV table with a leading '#' comment line; floats to 6 significant figures, nan as empty."""
+    buf = io.StringIO()
+    buf.write(f"# {comment}\n")
+    w = csv.writer(buf, lineterminator="\n")
+    w.writerow(header)
+    for row in rows:
+        w.writerow(["" if isinstance(v, float) and not math.isfinite(v) else (f"{v:.6g}" if isinstance(v, float) else v)
+                    for v in row])
+    return buf.getvalue().encode("utf-8")
+
+
+def material_figures(report: dict, name: str) -> dict[str, bytes]:
+    """The dE/dx and range figures of one material."""
+    from . import figures
+    slug = report["material_slugs"][name]
+    labels = report["species_labels"]
+    dedx, rng = [], []
+    for (mat, sp), c in report["curves"].items():
+        if mat != name:
+            continue
+        dedx.append({"label": labels[sp], "x": c["momentum_GeV_c"], "y": c["dedx_MeV_cm2_g"], "valid": c["valid"]})
+        rng.append({"label": labels[sp], "x": c["momentum_GeV_c"], "y": c["csda_range_g_cm2"], "valid": c["valid"]})
+    mi = report["key_numbers"]["materials"][name]["min_ionization"]
+    mark = [(mi["beta_gamma"] * 0.1056583755, mi["dedx_MeV_cm2_g"], f"muon minimum {mi['dedx_MeV_cm2_g']:.3f} MeV cm²/g")]
+    edge = "limited validity (Bethe below βγ = 0.05; electrons below 10 keV)"
+    return {
+        f"fig/dedx-{slug}.svg": figures.species_curves(dedx, "momentum (GeV/c)", "mass stopping power (MeV cm²/g)", edge, mark),
+        f"fig/range-{slug}.svg": figures.species_curves(rng, "momentum (GeV/c)", "CSDA range (g/cm²)", edge),
+    }
+
+
+def reach_figure(report: dict) -> bytes:
+    from . import figures
+    kn = report["key_numbers"]
+    names = [l["name"] for l in kn["layers"]]
+    series = [{"label": report["species_labels"][sp], "y": [row[n] for n in names]} for sp, row in kn["reach_momentum_GeV_c"].items()]
+    return figures.reach_figure(names, series)
+
+
 def render_site(report: dict, build_info: dict) -> dict[str, bytes]:
     """Every file of the site, in memory: pages, key-numbers.json and static assets."""
     env = environment()
@@ -95,12 +138,21 @@ def render_site(report: dict, build_info: dict) -> dict[str, bytes]:
     common = {"kn": kn, "report": report, "build": build_info, "slugs": report["material_slugs"],
               "summary_html": markdown_safe(report["summary_markdown"])}
     files: dict[str, bytes] = {}
-    pages = [("index.html", "index.html", {"title": kn["experiment"]["name"], "page": "index"})]
+    pages = [("index.html", "index.html", {"title": kn["experiment"]["name"], "page": "index"}),
+             ("charged.html", "charged.html", {"title": "Charged particles in the stack", "page": "charged"})]
     for name, slug in report["material_slugs"].items():
         pages.append((f"material-{slug}.html", "material.html",
-                      {"title": f"Material: {name}", "page": "material", "name": name, "m": kn["materials"][name]}))
+                      {"title": f"Material: {name}", "page": "material", "name": name, "m": kn["materials"][name],
+                       "rows": report["round_table"][name]}))
     for out, template, ctx in pages:
         files[out] = env.get_template(template).render(**common, **ctx).encode("utf-8")
     files["data/key-numbers.json"] = json_bytes(kn)
+    for path, (header, rows) in report["csv_tables"].items():
+        files[path] = csv_bytes(header, rows, f"{path.split('/')[-1]}: refgen {build_info['version']}, "
+                                f"spec {build_info['spec_hash']}; units in the column names; valid=False rows lie "
+                                "below the model's validity edge")
+    for name in report["material_slugs"]:
+        files.update(material_figures(report, name))
+    files["fig/reach.svg"] = reach_figure(report)
     files.update(static_assets())
     return files

@@ -5,8 +5,10 @@ contexts and the CSV tables. Templates only format what is here.
 """
 from __future__ import annotations
 
-from . import __version__
+from . import __version__, charged
 from .model import SYSTEM_KINDS, Spec
+from .physics.medium import medium_of
+from .physics.radlen import radiation_length
 from .spec import safe_name
 
 SCHEMA = "refgen-key-numbers/1"
@@ -62,13 +64,41 @@ def layer_numbers(spec: Spec, layer, position_cm: float) -> dict:
     return out
 
 
+def dedx_csv_rows(curve: dict) -> tuple[list[str], list[list]]:
+    """Header and rows of one data/dedx/<material>--<particle>.csv table."""
+    cols = ["momentum_GeV_c", "kinetic_energy_MeV", "beta_gamma", "dedx_MeV_cm2_g", "csda_range_g_cm2",
+            "collision_MeV_cm2_g", "radiative_MeV_cm2_g", "valid"]
+    rows = [list(r) for r in zip(*(curve[c].tolist() for c in cols))]
+    return cols, rows
+
+
 def make_report(spec: Spec) -> dict:
     """All numbers for one spec as plain data."""
-    materials = {name: material_numbers(m) for name, m in spec.materials.items()}
+    media = {name: medium_of(m) for name, m in spec.materials.items()}
+    x0s = {name: radiation_length(*m.arrays()) for name, m in spec.materials.items()}
+    min_ion = {name: charged.minimum_ionization(md) for name, md in media.items()}
+    p_max = spec.momentum.stop
+    tables = {(name, sp.key): charged.make_range_table(sp, md, x0s[name], p_max)
+              for name, md in media.items() for sp in spec.species}
+    curves = charged.curves(spec, media, x0s, tables)
+
+    materials = {}
+    for name, m in spec.materials.items():
+        numbers = material_numbers(m)
+        numbers["density_effect_source"] = media[name].de_source
+        numbers["radiation_length_g_cm2"] = x0s[name]
+        numbers["radiation_length_cm"] = x0s[name] / m.density
+        bg, dedx = min_ion[name]
+        numbers["min_ionization"] = {"dedx_MeV_cm2_g": dedx, "beta_gamma": bg, "dedx_MeV_cm": dedx * m.density,
+                                     "species": "muon"}
+        materials[name] = numbers
     layers, z = [], 0.0
     for layer in spec.layers:
-        layers.append(layer_numbers(spec, layer, z))
+        entry = layer_numbers(spec, layer, z)
+        entry.update(charged.layer_signals(spec, layer, media, x0s, min_ion))
+        layers.append(entry)
         z += layer.thickness
+    reach = charged.reach_momenta(spec, tables)
     key_numbers = {
         "schema": SCHEMA,
         "refgen_version": __version__,
@@ -79,14 +109,26 @@ def make_report(spec: Spec) -> dict:
         "materials": materials,
         "layers": layers,
         "stack_length_cm": z,
+        "reach_momentum_GeV_c": reach,
+        "tracking_scattering": charged.cumulative_scattering(spec, x0s),
     }
+    slugs = _unique_slugs(spec.materials)
+    species_slugs = _unique_slugs([s.key for s in spec.species])
+    csv_tables = {f"data/dedx/{slugs[m]}--{species_slugs[sp]}.csv": dedx_csv_rows(c) for (m, sp), c in curves.items()}
     return {
         "key_numbers": key_numbers,
-        "material_slugs": _unique_slugs(spec.materials),
+        "material_slugs": slugs,
+        "species_slugs": species_slugs,
         "systems": {kind: [l["name"] for l in layers if l["system"] == kind] for kind in SYSTEM_KINDS
                     if any(l["system"] == kind for l in layers)},
         "system_descriptions": SYSTEM_KINDS,
         "notes": list(spec.notes),
         "warnings": list(spec.warnings),
         "summary_markdown": spec.experiment.summary,
+        "curves": curves,
+        "csv_tables": csv_tables,
+        "round_momenta_GeV_c": [p / 1e3 for p in charged.ROUND_MOMENTA],
+        "round_table": charged.round_momentum_table(spec, media, x0s, tables),
+        "validity_edges_GeV_c": {sp.key: charged.validity_edge_momentum(sp) / 1e3 for sp in spec.species},
+        "species_labels": {sp.key: sp.label for sp in spec.species},
     }

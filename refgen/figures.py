@@ -1,0 +1,80 @@
+"""Figures in refgen's house style: matplotlib SVG, deterministic (fixed hash salt, no dates), colour-blind-safe.
+
+Each function takes plain data and returns SVG bytes. Species are told apart by line style as well as colour.
+"""
+from __future__ import annotations
+
+import io
+
+import matplotlib
+
+matplotlib.use("Agg")
+import matplotlib.pyplot as plt  # noqa: E402
+import numpy as np  # noqa: E402
+
+# Okabe & Ito (2008) colour-blind-safe palette, in our own order.
+PALETTE = ["#0072B2", "#D55E00", "#009E73", "#CC79A7", "#E69F00", "#56B4E9", "#000000", "#F0E442"]
+DASHES = ["-", "--", "-.", ":", (0, (5, 1, 1, 1)), (0, (3, 1, 1, 1, 1, 1)), (0, (8, 2)), (0, (1, 1))]
+STYLE = {
+    "svg.hashsalt": "refgen", "svg.fonttype": "path", "font.family": "DejaVu Sans", "font.size": 9,
+    "axes.grid": True, "grid.color": "#d9dde2", "grid.linewidth": 0.6, "axes.edgecolor": "#59636e",
+    "axes.spines.top": False, "axes.spines.right": False, "legend.frameon": False, "lines.linewidth": 1.6,
+    "figure.dpi": 100,
+}
+
+
+def line_style(i: int) -> dict:
+    """Colour and dash for the i-th series."""
+    return {"color": PALETTE[i % len(PALETTE)], "linestyle": DASHES[i % len(DASHES)]}
+
+
+def to_svg(fig) -> bytes:
+    """Serialise a figure to SVG bytes without dates or random ids."""
+    buf = io.BytesIO()
+    fig.savefig(buf, format="svg", metadata={"Date": None, "Creator": None}, bbox_inches="tight")
+    plt.close(fig)
+    return buf.getvalue()
+
+
+def species_curves(series: list[dict], xlabel: str, ylabel: str, edge_label: str, marks=()) -> bytes:
+    """Log-log curves per species; the part of limited validity is drawn thin and grey-dotted.
+
+    series: [{"label", "x", "y", "valid"}]; marks: [(x, y, text)] points to annotate (e.g. the minimum).
+    """
+    with plt.rc_context(STYLE):
+        fig, ax = plt.subplots(figsize=(6.4, 4.0))
+        for i, s in enumerate(series):
+            x, y, ok = np.asarray(s["x"]), np.asarray(s["y"]), np.asarray(s["valid"], dtype=bool)
+            st = line_style(i)
+            ax.plot(np.where(ok, x, np.nan), np.where(ok, y, np.nan), label=s["label"], **st)
+            if (~ok).any():
+                edge = np.argmax(ok) if ok.any() else len(ok)
+                ax.plot(x[: edge + 1], y[: edge + 1], color=st["color"], linestyle=":", linewidth=0.8, alpha=0.6)
+        if any((~np.asarray(s["valid"], dtype=bool)).any() for s in series):
+            ax.plot([], [], color="#777777", linestyle=":", linewidth=0.8, label=edge_label)
+        for x, y, text in marks:
+            ax.plot([x], [y], marker="o", color="#333333", markersize=3.5, linestyle="none")
+            ax.annotate(text, (x, y), textcoords="offset points", xytext=(4, -10), fontsize=7.5, color="#333333")
+        ax.set_xscale("log")
+        ax.set_yscale("log")
+        ax.set_xlabel(xlabel)
+        ax.set_ylabel(ylabel)
+        ax.legend(fontsize=7.5, ncol=2)
+        return to_svg(fig)
+
+
+def reach_figure(layers: list[str], series: list[dict]) -> bytes:
+    """Momentum each species needs to reach each layer: one step line per species over the stack."""
+    with plt.rc_context(STYLE):
+        fig, ax = plt.subplots(figsize=(6.8, 4.2))
+        idx = np.arange(len(layers))
+        for i, s in enumerate(series):
+            y = np.array([np.nan if v is None or v <= 0 else v for v in s["y"]], dtype=float)
+            ax.plot(idx, y, marker="os^vD<>p"[i % 8], markersize=3.5, label=s["label"], **line_style(i))
+        ax.set_yscale("log")
+        ax.set_xticks(idx)
+        ax.set_xticklabels(layers, rotation=60, ha="right", fontsize=7)
+        ax.set_ylabel("momentum needed at the interaction point (GeV/c)")
+        ax.set_xlabel("layer reached (front face)")
+        ax.legend(fontsize=7.5, ncol=2)
+        return to_svg(fig)
