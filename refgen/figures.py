@@ -23,6 +23,18 @@ STYLE = {
 }
 
 
+def species_tex(label: str) -> str:
+    """Matplotlib mathtext for a species label: 'pi+' -> $\\pi^{+}$, 'He-3' -> $^{3}$He."""
+    greek = {"pi": r"\pi", "mu": r"\mu", "alpha": r"\alpha"}
+    if label == "p-bar":
+        return r"$\bar{p}$"
+    if label.startswith("He-"):
+        return f"$^{{{label[3:]}}}$He"
+    if label and label[-1] in "+-":
+        return f"${greek.get(label[:-1], label[:-1])}^{{{'+' if label[-1] == '+' else '-'}}}$"
+    return f"${greek[label]}$" if label in greek else label
+
+
 def line_style(i: int) -> dict:
     """Colour and dash for the i-th series."""
     return {"color": PALETTE[i % len(PALETTE)], "linestyle": DASHES[i % len(DASHES)]}
@@ -46,7 +58,7 @@ def species_curves(series: list[dict], xlabel: str, ylabel: str, edge_label: str
         for i, s in enumerate(series):
             x, y, ok = np.asarray(s["x"]), np.asarray(s["y"]), np.asarray(s["valid"], dtype=bool)
             st = line_style(i)
-            ax.plot(np.where(ok, x, np.nan), np.where(ok, y, np.nan), label=s["label"], **st)
+            ax.plot(np.where(ok, x, np.nan), np.where(ok, y, np.nan), label=species_tex(s["label"]), **st)
             if (~ok).any():
                 edge = np.argmax(ok) if ok.any() else len(ok)
                 ax.plot(x[: edge + 1], y[: edge + 1], color=st["color"], linestyle=":", linewidth=0.8, alpha=0.6)
@@ -59,7 +71,7 @@ def species_curves(series: list[dict], xlabel: str, ylabel: str, edge_label: str
         ax.set_yscale("log")
         ax.set_xlabel(xlabel)
         ax.set_ylabel(ylabel)
-        ax.legend(fontsize=7.5, ncol=2)
+        ax.legend(fontsize=7.5, loc="upper left", bbox_to_anchor=(1.01, 1.0))
         return to_svg(fig)
 
 
@@ -70,11 +82,11 @@ def reach_figure(layers: list[str], series: list[dict]) -> bytes:
         idx = np.arange(len(layers))
         for i, s in enumerate(series):
             y = np.array([np.nan if v is None or v <= 0 else v for v in s["y"]], dtype=float)
-            ax.plot(idx, y, marker="os^vD<>p"[i % 8], markersize=3.5, label=s["label"], **line_style(i))
+            ax.plot(idx, y, marker="os^vD<>p"[i % 8], markersize=3.5, label=species_tex(s["label"]), **line_style(i))
         ax.set_yscale("log")
         ax.set_xticks(idx)
         ax.set_xticklabels(layers, rotation=60, ha="right", fontsize=7)
         ax.set_ylabel("momentum needed at the interaction point (GeV/c)")
         ax.set_xlabel("layer reached (front face)")
-        ax.legend(fontsize=7.5, ncol=2)
+        ax.legend(fontsize=7.5, loc="upper left", bbox_to_anchor=(1.01, 1.0))
         return to_svg(fig)

@@ -4,7 +4,7 @@ The continuous-slowing-down approximation (ICRU Report 49 (1993), Sec. 2.3):
     R(T) = R(T_low) + integral_{T_low}^{T} dT' / S(T'),  S the mass stopping power (MeV cm2/g).
 Low-energy treatment: below T_low (where the Bethe equation stops being valid, beta gamma = 0.05 for heavy
 particles; 10 keV for electrons), S is taken as a power law S ~ T^-q with q the local log-slope at T_low,
-so R(T_low) = T_low / ((1 - q) S(T_low)). The range is in g/cm2; it is the mean path length, not the
+so R(T_low) = T_low / ((1 + q) S(T_low)). The range is in g/cm2; it is the mean path length, not the
 projected depth (detour factor not applied).
 """
 from __future__ import annotations
@@ -38,8 +38,8 @@ def range_table(stopping_of_t, t_low: float, t_high: float, points: int = 600) -
     t = np.geomspace(t_low, t_high, points)
     s = stopping_of_t(t)
     q = -np.log(s[1] / s[0]) / np.log(t[1] / t[0])
-    q = min(q, 0.9)
-    r0 = t_low / ((1.0 - q) * s[0])
+    q = float(np.clip(q, -0.5, 1.0))
+    r0 = t_low / ((1.0 + q) * s[0])
     lnt = np.log(t)
     r = r0 + cumulative_trapezoid(t / s, lnt, initial=0.0)
     return RangeTable(t, r)
