@@ -7,6 +7,7 @@ from __future__ import annotations
 import numpy as np
 from scipy.optimize import minimize_scalar
 
+from .physics.muon import muon_critical_energy
 from .physics.kinematics import beta_gamma, electron_mass, kinetic_energy, momentum_of_kinetic
 from .physics.ranges import kinetic_to_cross, range_table
 from .physics.scattering import highland_theta0, highland_valid
@@ -47,6 +48,13 @@ def minimum_ionization(medium, mass: float = MUON_MASS) -> tuple[float, float]:
     res = minimize_scalar(lambda lbg: float(bethe_stopping(np.exp(lbg) * mass, mass, 1, medium)),
                           bounds=(np.log(1.0), np.log(30.0)), method="bounded", options={"xatol": 1e-6})
     return float(np.exp(res.x)), float(res.fun)
+
+
+def muon_critical_energy_gev(material, medium) -> float:
+    """Muon critical energy of a material, GeV (collision loss of a mu- equal to its radiative loss)."""
+    def collision(e):
+        return bethe_stopping(np.sqrt(e * e - MUON_MASS ** 2), MUON_MASS, -1, medium)
+    return muon_critical_energy(collision, *material.arrays()) / 1e3
 
 
 def curves(spec, media, x0s, tables) -> dict:

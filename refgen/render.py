@@ -82,6 +82,8 @@ def json_bytes(data) -> bytes:
 
 
 def _finite(value):
+    if hasattr(value, "item") and not isinstance(value, (list, dict)):  # numpy scalars
+        value = value.item()
     if isinstance(value, float) and not math.isfinite(value):
         return None
     if isinstance(value, dict):

@@ -5,7 +5,7 @@ contexts and the CSV tables. Templates only format what is here.
 """
 from __future__ import annotations
 
-from . import __version__, charged
+from . import __version__, calorimetry, charged
 from .model import SYSTEM_KINDS, Spec
 from .physics.medium import medium_of
 from .physics.radlen import radiation_length
@@ -91,14 +91,24 @@ def make_report(spec: Spec) -> dict:
         bg, dedx = min_ion[name]
         numbers["min_ionization"] = {"dedx_MeV_cm2_g": dedx, "beta_gamma": bg, "dedx_MeV_cm": dedx * m.density,
                                      "species": "muon"}
+        numbers["muon_critical_energy_GeV"] = charged.muon_critical_energy_gev(m, media[name])
+        numbers.update(calorimetry.material_lengths(m, media[name], x0s[name]))
         materials[name] = numbers
     layers, z = [], 0.0
     for layer in spec.layers:
         entry = layer_numbers(spec, layer, z)
         entry.update(charged.layer_signals(spec, layer, media, x0s, min_ion))
+        entry.update(calorimetry.layer_budget(spec, layer, materials))
+        entry["photon_conversion_probability_high_energy"] = calorimetry.conversion_probability_high_energy(entry["x_over_X0"])
+        if layer.is_sampling:
+            entry["effective_cell"] = calorimetry.effective_cell(spec, layer, materials)
         layers.append(entry)
         z += layer.thickness
     reach = charged.reach_momenta(spec, tables)
+    budget = calorimetry.budget_totals(layers)
+    survival = calorimetry.survival(layers)
+    systems = calorimetry.systems_showers(spec, layers, materials)
+    tracking_x0 = sum(l["x_over_X0"] for l in layers if l["system"] == "tracking")
     key_numbers = {
         "schema": SCHEMA,
         "refgen_version": __version__,
@@ -111,6 +121,11 @@ def make_report(spec: Spec) -> dict:
         "stack_length_cm": z,
         "reach_momentum_GeV_c": reach,
         "tracking_scattering": charged.cumulative_scattering(spec, x0s),
+        "material_budget": budget,
+        "hadron_survival": survival,
+        "calorimeters": systems,
+        "tracking_volume": {"x_over_X0": tracking_x0,
+                            "photon_conversion_probability_high_energy": calorimetry.conversion_probability_high_energy(tracking_x0)},
     }
     slugs = _unique_slugs(spec.materials)
     species_slugs = _unique_slugs([s.key for s in spec.species])
@@ -131,4 +146,5 @@ def make_report(spec: Spec) -> dict:
         "round_table": charged.round_momentum_table(spec, media, x0s, tables),
         "validity_edges_GeV_c": {sp.key: charged.validity_edge_momentum(sp) / 1e3 for sp in spec.species},
         "species_labels": {sp.key: sp.label for sp in spec.species},
+        "shower_profiles": {kind: calorimetry.profiles(entry, spec.shower_energies) for kind, entry in systems.items()},
     }

@@ -14,6 +14,7 @@ import numpy as np
 from .. import datafiles
 from .density_effect import sternheimer_delta
 from .kinematics import beta_of, electron_mass, gamma_of, w_max
+from .muon import muon_radiative_stopping
 
 BETHE_VALID_MIN_BG = 0.05  # below this the Bethe equation fails (Review of Particle Physics 2024, Fig. 34.1)
 SHELL_FORMULA_MIN_ETA = 0.13  # Barkas-Berger formula is fitted for eta = beta gamma >= 0.13
@@ -122,14 +123,17 @@ def electron_radiative_stopping(p, medium, x0_g_cm2: float):
 def mass_stopping_power(p, mass: float, z: int, medium, x0_g_cm2: float) -> dict:
     """Collision, radiative and total mass stopping power (MeV cm2/g) of any species at momenta p.
 
-    Electrons and positrons (|z| = 1, electron mass): Rohrlich-Carlson plus bremsstrahlung. Heavier species:
-    the Bethe equation; their radiative losses (important for muons above ~100 GeV) are not included yet,
-    so the radiative column is zero for them.
+    Electrons and positrons (|z| = 1, electron mass): Rohrlich-Carlson plus bremsstrahlung. Muons: the Bethe
+    equation plus b(E) E (refgen.physics.muon). Other species: the Bethe equation; their radiative losses
+    are smaller than the muon's by (m_mu/M)^2 and are not included (radiative column zero).
     """
     p = np.asarray(p, dtype=float)
     if abs(mass - electron_mass()) < 1e-6:
         col = electron_collision_stopping(p, medium, positron=z > 0)
         rad = electron_radiative_stopping(p, medium, x0_g_cm2)
+    elif abs(mass - datafiles.constant("muon_mass")) < 1e-6:
+        col = bethe_stopping(p, mass, z, medium)
+        rad = muon_radiative_stopping(p, medium.Z, medium.A, medium.w)
     else:
         col = bethe_stopping(p, mass, z, medium)
         rad = np.zeros_like(col)
