@@ -90,3 +90,34 @@ def reach_figure(layers: list[str], series: list[dict]) -> bytes:
         ax.set_xlabel("layer reached (front face)")
         ax.legend(fontsize=7.5, loc="upper left", bbox_to_anchor=(1.01, 1.0))
         return to_svg(fig)
+
+
+def budget_figure(layers: list[str], cum_x0: list[float], cum_li: list[float]) -> bytes:
+    """Cumulative material budget along the stack: x/X0 and x/lambda_I after each layer (log scale)."""
+    with plt.rc_context(STYLE):
+        fig, ax = plt.subplots(figsize=(6.8, 4.0))
+        idx = np.arange(len(layers))
+        ax.step(idx, cum_x0, where="mid", label="Σ x/X$_0$", **line_style(0))
+        ax.step(idx, cum_li, where="mid", label="Σ x/λ$_I$", **line_style(1))
+        ax.set_yscale("log")
+        ax.set_xticks(idx)
+        ax.set_xticklabels(layers, rotation=60, ha="right", fontsize=7)
+        ax.set_ylabel("cumulative thickness (radiation or interaction lengths)")
+        ax.set_xlabel("after layer")
+        ax.legend(fontsize=8, loc="upper left")
+        return to_svg(fig)
+
+
+def profile_figure(t, series: list[dict], depth_x0: float) -> bytes:
+    """Longitudinal shower profiles (1/E dE/dt against depth in X0), with the calorimeter's depth marked."""
+    with plt.rc_context(STYLE):
+        fig, ax = plt.subplots(figsize=(6.4, 3.8))
+        for i, s in enumerate(series):
+            ax.plot(t, s["y"], label=s["label"], **line_style(i))
+        ax.axvline(depth_x0, color="#444444", linewidth=1.0)
+        ax.annotate("back of the calorimeter", (depth_x0, ax.get_ylim()[1] * 0.95), xytext=(-4, 0),
+                    textcoords="offset points", ha="right", va="top", fontsize=7.5, color="#444444")
+        ax.set_xlabel("depth t (radiation lengths X$_0$)")
+        ax.set_ylabel("(1/E) dE/dt (per X$_0$)")
+        ax.legend(fontsize=7.5, loc="upper left", bbox_to_anchor=(1.01, 1.0))
+        return to_svg(fig)

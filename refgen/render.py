@@ -15,6 +15,8 @@ import io
 import jinja2
 import markdown
 from markupsafe import Markup, escape
+
+from .report import plain
 import nh3
 
 ALLOWED_TAGS = {"p", "em", "strong", "code", "pre", "ul", "ol", "li", "a", "blockquote", "h3", "h4", "br", "sub", "sup"}
@@ -82,13 +84,12 @@ def json_bytes(data) -> bytes:
 
 
 def _finite(value):
-    if hasattr(value, "item") and not isinstance(value, (list, dict)):  # numpy scalars
-        value = value.item()
+    value = plain(value)
     if isinstance(value, float) and not math.isfinite(value):
         return None
     if isinstance(value, dict):
         return {str(k): _finite(v) for k, v in value.items()}
-    if isinstance(value, (list, tuple)):
+    if isinstance(value, list):
         return [_finite(v) for v in value]
     return value
 
@@ -133,6 +134,18 @@ def reach_figure(report: dict) -> bytes:
     return figures.reach_figure(names, series)
 
 
+def calorimetry_figures(report: dict) -> dict[str, bytes]:
+    """The material-budget figure and one shower-profile figure per calorimeter system."""
+    from . import figures
+    rows = report["key_numbers"]["material_budget"]["rows"]
+    out = {"fig/budget.svg": figures.budget_figure([r["layer"] for r in rows], [r["cumulative_X0"] for r in rows],
+                                                   [r["cumulative_lambda_I"] for r in rows])}
+    for kind, prof in report["shower_profiles"].items():
+        depth = report["key_numbers"]["calorimeters"][kind]["depth_X0"]
+        out[f"fig/showers-{kind}.svg"] = figures.profile_figure(prof["t_X0"], prof["series"], depth)
+    return out
+
+
 def render_site(report: dict, build_info: dict) -> dict[str, bytes]:
     """Every file of the site, in memory: pages, key-numbers.json and static assets."""
     env = environment()
@@ -141,7 +154,11 @@ def render_site(report: dict, build_info: dict) -> dict[str, bytes]:
               "summary_html": markdown_safe(report["summary_markdown"])}
     files: dict[str, bytes] = {}
     pages = [("index.html", "index.html", {"title": kn["experiment"]["name"], "page": "index"}),
-             ("charged.html", "charged.html", {"title": "Charged particles in the stack", "page": "charged"})]
+             ("charged.html", "charged.html", {"title": "Charged particles in the stack", "page": "charged"}),
+             ("budget.html", "budget.html", {"title": "Material budget", "page": "budget"})]
+    for kind, cal in kn["calorimeters"].items():
+        pages.append((f"showers-{kind}.html", "showers.html", {"title": f"Showers: {kind}", "page": "showers",
+                                                               "kind": kind, "cal": cal}))
     for name, slug in report["material_slugs"].items():
         pages.append((f"material-{slug}.html", "material.html",
                       {"title": f"Material: {name}", "page": "material", "name": name, "m": kn["materials"][name],
@@ -156,5 +173,6 @@ def render_site(report: dict, build_info: dict) -> dict[str, bytes]:
     for name in report["material_slugs"]:
         files.update(material_figures(report, name))
     files["fig/reach.svg"] = reach_figure(report)
+    files.update(calorimetry_figures(report))
     files.update(static_assets())
     return files

@@ -5,6 +5,8 @@ contexts and the CSV tables. Templates only format what is here.
 """
 from __future__ import annotations
 
+import numpy as np
+
 from . import __version__, calorimetry, charged
 from .model import SYSTEM_KINDS, Spec
 from .physics.medium import medium_of
@@ -12,6 +14,17 @@ from .physics.radlen import radiation_length
 from .spec import safe_name
 
 SCHEMA = "refgen-key-numbers/1"
+
+
+def plain(value):
+    """Numpy scalars to Python numbers and tuples to lists, recursively (key numbers are plain JSON data)."""
+    if isinstance(value, np.generic):
+        return value.item()
+    if isinstance(value, dict):
+        return {k: plain(v) for k, v in value.items()}
+    if isinstance(value, (list, tuple)):
+        return [plain(v) for v in value]
+    return value
 
 
 def _unique_slugs(names) -> dict[str, str]:
@@ -131,7 +144,7 @@ def make_report(spec: Spec) -> dict:
     species_slugs = _unique_slugs([s.key for s in spec.species])
     csv_tables = {f"data/dedx/{slugs[m]}--{species_slugs[sp]}.csv": dedx_csv_rows(c) for (m, sp), c in curves.items()}
     return {
-        "key_numbers": key_numbers,
+        "key_numbers": plain(key_numbers),
         "material_slugs": slugs,
         "species_slugs": species_slugs,
         "systems": {kind: [l["name"] for l in layers if l["system"] == kind] for kind in SYSTEM_KINDS
