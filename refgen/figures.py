@@ -5,6 +5,7 @@ Each function takes plain data and returns SVG bytes. Species are told apart by 
 from __future__ import annotations
 
 import io
+import math
 
 import matplotlib
 
@@ -120,4 +121,69 @@ def profile_figure(t, series: list[dict], depth_x0: float) -> bytes:
         ax.set_xlabel("depth t (radiation lengths X$_0$)")
         ax.set_ylabel("(1/E) dE/dt (per X$_0$)")
         ax.legend(fontsize=7.5, loc="upper left", bbox_to_anchor=(1.01, 1.0))
+        return to_svg(fig)
+
+
+BAND_COLOURS = {"photoelectric absorption": "#fbe3c8", "Compton scattering": "#dcebf5", "pair production": "#e2f1df"}
+PROCESS_LABELS = {"photoelectric": "photoelectric absorption", "coherent": "coherent (Rayleigh) scattering",
+                  "incoherent": "incoherent (Compton) scattering", "pair_nuclear": "pair production, nuclear field",
+                  "pair_electron": "pair production, electron field", "total": "total"}
+
+
+def photon_figure(e, curves: dict, bands: list[dict]) -> bytes:
+    """Mass attenuation by process against photon energy, with the dominance bands shaded and named."""
+    with plt.rc_context(STYLE):
+        fig, ax = plt.subplots(figsize=(6.6, 4.2))
+        lo, hi = float(e[0]), float(e[-1])
+        for b in bands:
+            a, z = max(b["from_MeV"], lo), min(b["to_MeV"], hi)
+            if z <= a:
+                continue
+            ax.axvspan(a, z, color=BAND_COLOURS[b["process"]], zorder=0, linewidth=0)
+            ax.text(math.sqrt(a * z), 0.98, b["process"].replace(" ", "\n", 1), transform=ax.get_xaxis_transform(),
+                    ha="center", va="top", fontsize=7, color="#444444")
+        for i, key in enumerate(["total", "photoelectric", "incoherent", "coherent", "pair_nuclear", "pair_electron"]):
+            y = np.where(curves[key] > 0, curves[key], np.nan)
+            style = {"color": "#000000", "linestyle": "-", "linewidth": 2.2} if key == "total" else line_style(i - 1)
+            ax.plot(e, y, label=PROCESS_LABELS[key], **style)
+        ax.set_xscale("log")
+        ax.set_yscale("log")
+        top = float(np.nanmax(curves["total"]))
+        ax.set_ylim(max(top * 1e-7, 1e-6), top * 30)
+        ax.set_xlim(lo, hi)
+        ax.set_xlabel("photon energy (MeV)")
+        ax.set_ylabel("mass attenuation coefficient (cm²/g)")
+        ax.legend(fontsize=7.5, loc="upper left", bbox_to_anchor=(1.01, 1.0))
+        return to_svg(fig)
+
+
+def regime_figure(rows: list[dict], placed: list[dict]) -> bytes:
+    """The photon-regime map: crossover lines in the (energy, Z) plane with the spec's materials placed."""
+    with plt.rc_context(STYLE):
+        fig, ax = plt.subplots(figsize=(6.6, 4.4))
+        z = np.array([r["Z"] for r in rows], dtype=float)
+        pc = np.array([np.nan if r["photoelectric_compton_MeV"] is None else r["photoelectric_compton_MeV"] for r in rows])
+        cp = np.array([np.nan if r["compton_pair_MeV"] is None else r["compton_pair_MeV"] for r in rows])
+        ax.fill_betweenx(z, 1e-3, pc, color=BAND_COLOURS["photoelectric absorption"], linewidth=0)
+        ax.fill_betweenx(z, pc, cp, color=BAND_COLOURS["Compton scattering"], linewidth=0)
+        ax.fill_betweenx(z, cp, 1e5, color=BAND_COLOURS["pair production"], linewidth=0)
+        ax.plot(pc, z, color="#8a4b00", linewidth=1.4, label="photoelectric = Compton")
+        ax.plot(cp, z, color="#1f5f8b", linewidth=1.4, linestyle="--", label="Compton = pair production")
+        labelled: list[float] = []
+        for p in sorted(placed, key=lambda q: q["z"]):
+            for x in (p["pc"], p["cp"]):
+                if x:
+                    ax.plot([x], [p["z"]], marker="o", markersize=3.5, color="#222222", linestyle="none")
+            if p["cp"] and all(abs(p["z"] - z0) > 3.0 for z0 in labelled):
+                ax.annotate(p["name"], (p["cp"], p["z"]), textcoords="offset points", xytext=(5, 2), fontsize=7)
+                labelled.append(p["z"])
+        ax.text(3e-3, 60, "photoelectric\nabsorption\ndominates", fontsize=8, color="#444444")
+        ax.text(0.5, 8, "Compton scattering\ndominates", fontsize=8, color="#444444", ha="center")
+        ax.text(2e3, 60, "pair\nproduction\ndominates", fontsize=8, color="#444444", ha="center")
+        ax.set_xscale("log")
+        ax.set_xlim(1e-3, 1e5)
+        ax.set_ylim(1, 100)
+        ax.set_xlabel("photon energy (MeV)")
+        ax.set_ylabel("atomic number Z (materials at their mean electron-weighted Z)")
+        ax.legend(fontsize=7.5, loc="lower right")
         return to_svg(fig)

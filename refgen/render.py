@@ -146,6 +146,22 @@ def calorimetry_figures(report: dict) -> dict[str, bytes]:
     return out
 
 
+def photon_figures(report: dict) -> dict[str, bytes]:
+    """One by-process figure per material and the regime map."""
+    from . import figures
+    kn = report["key_numbers"]
+    e = report["photon_energies_MeV"]
+    out = {}
+    placed = []
+    for name, slug in report["material_slugs"].items():
+        ph = kn["materials"][name]["photon"]
+        out[f"fig/photon-{slug}.svg"] = figures.photon_figure(e, report["photon_curves"][name], ph["dominance_bands"])
+        placed.append({"name": name, "z": kn["materials"][name]["z_eff"], "pc": ph["photoelectric_compton_crossover_MeV"],
+                       "cp": ph["compton_pair_crossover_MeV"]})
+    out["fig/photon-regimes.svg"] = figures.regime_figure(report["regime_map"]["rows"], placed)
+    return out
+
+
 def render_site(report: dict, build_info: dict) -> dict[str, bytes]:
     """Every file of the site, in memory: pages, key-numbers.json and static assets."""
     env = environment()
@@ -155,7 +171,8 @@ def render_site(report: dict, build_info: dict) -> dict[str, bytes]:
     files: dict[str, bytes] = {}
     pages = [("index.html", "index.html", {"title": kn["experiment"]["name"], "page": "index"}),
              ("charged.html", "charged.html", {"title": "Charged particles in the stack", "page": "charged"}),
-             ("budget.html", "budget.html", {"title": "Material budget", "page": "budget"})]
+             ("budget.html", "budget.html", {"title": "Material budget", "page": "budget"}),
+             ("photons.html", "photons.html", {"title": "Photons", "page": "photons"})]
     for kind, cal in kn["calorimeters"].items():
         pages.append((f"showers-{kind}.html", "showers.html", {"title": f"Showers: {kind}", "page": "showers",
                                                                "kind": kind, "cal": cal}))
@@ -174,5 +191,6 @@ def render_site(report: dict, build_info: dict) -> dict[str, bytes]:
         files.update(material_figures(report, name))
     files["fig/reach.svg"] = reach_figure(report)
     files.update(calorimetry_figures(report))
+    files.update(photon_figures(report))
     files.update(static_assets())
     return files

@@ -7,7 +7,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from . import __version__, calorimetry, charged
+from . import __version__, attenuation, calorimetry, charged
 from .model import SYSTEM_KINDS, Spec
 from .physics.medium import medium_of
 from .physics.radlen import radiation_length
@@ -95,10 +95,11 @@ def make_report(spec: Spec) -> dict:
               for name, md in media.items() for sp in spec.species}
     curves = charged.curves(spec, media, x0s, tables)
 
-    materials = {}
+    materials, photon_curves = {}, {}
     for name, m in spec.materials.items():
         numbers = material_numbers(m)
         numbers["density_effect_source"] = media[name].de_source
+        numbers["z_eff"] = media[name].z_eff
         numbers["radiation_length_g_cm2"] = x0s[name]
         numbers["radiation_length_cm"] = x0s[name] / m.density
         bg, dedx = min_ion[name]
@@ -106,13 +107,17 @@ def make_report(spec: Spec) -> dict:
                                      "species": "muon"}
         numbers["muon_critical_energy_GeV"] = charged.muon_critical_energy_gev(m, media[name])
         numbers.update(calorimetry.material_lengths(m, media[name], x0s[name]))
+        numbers["photon"], photon_curves[name] = attenuation.material_photons(m, spec.photon_energy.values())
         materials[name] = numbers
+    layer_coeffs = attenuation.layer_energy_coefficients(spec)
     layers, z = [], 0.0
     for layer in spec.layers:
         entry = layer_numbers(spec, layer, z)
         entry.update(charged.layer_signals(spec, layer, media, x0s, min_ion))
         entry.update(calorimetry.layer_budget(spec, layer, materials))
         entry["photon_conversion_probability_high_energy"] = calorimetry.conversion_probability_high_energy(entry["x_over_X0"])
+        entry["photon"] = attenuation.layer_photons(spec, layer, layer_coeffs)
+        entry["photon_conversion_probability_at_1_GeV"] = entry["photon"]["conversion_probability"][-1]
         if layer.is_sampling:
             entry["effective_cell"] = calorimetry.effective_cell(spec, layer, materials)
         layers.append(entry)
@@ -121,7 +126,8 @@ def make_report(spec: Spec) -> dict:
     budget = calorimetry.budget_totals(layers)
     survival = calorimetry.survival(layers)
     systems = calorimetry.systems_showers(spec, layers, materials)
-    tracking_x0 = sum(l["x_over_X0"] for l in layers if l["system"] == "tracking")
+    tracking = attenuation.tracking_volume_photons(spec, layer_coeffs)
+    tracking_x0 = sum(l["x_over_X0"] for l in layers if l["name"] in tracking["layers"])
     key_numbers = {
         "schema": SCHEMA,
         "refgen_version": __version__,
@@ -137,12 +143,20 @@ def make_report(spec: Spec) -> dict:
         "material_budget": budget,
         "hadron_survival": survival,
         "calorimeters": systems,
-        "tracking_volume": {"x_over_X0": tracking_x0,
-                            "photon_conversion_probability_high_energy": calorimetry.conversion_probability_high_energy(tracking_x0)},
+        "tracking_volume": {"x_over_X0": tracking_x0, "layers": tracking["layers"],
+                            "photon_conversion_probability_high_energy": calorimetry.conversion_probability_high_energy(tracking_x0),
+                            "photon": tracking,
+                            "photon_conversion_probability_at_1_GeV": tracking["conversion_probability"][-1]},
     }
     slugs = _unique_slugs(spec.materials)
     species_slugs = _unique_slugs([s.key for s in spec.species])
     csv_tables = {f"data/dedx/{slugs[m]}--{species_slugs[sp]}.csv": dedx_csv_rows(c) for (m, sp), c in curves.items()}
+    csv_tables.update({f"data/photon/{slugs[m]}.csv": attenuation.photon_csv(spec.photon_energy.values(), c)
+                       for m, c in photon_curves.items()})
+    regime = attenuation.regime_map()
+    csv_tables["data/photon-regimes.csv"] = (["Z", "symbol", "photoelectric_compton_MeV", "compton_pair_MeV"],
+                                             [[r["Z"], r["symbol"], r["photoelectric_compton_MeV"], r["compton_pair_MeV"]]
+                                              for r in regime["rows"]])
     return {
         "key_numbers": plain(key_numbers),
         "material_slugs": slugs,
@@ -159,5 +173,8 @@ def make_report(spec: Spec) -> dict:
         "round_table": charged.round_momentum_table(spec, media, x0s, tables),
         "validity_edges_GeV_c": {sp.key: charged.validity_edge_momentum(sp) / 1e3 for sp in spec.species},
         "species_labels": {sp.key: sp.label for sp in spec.species},
+        "photon_energies_MeV": spec.photon_energy.values(),
+        "photon_curves": photon_curves,
+        "regime_map": regime,
         "shower_profiles": {kind: calorimetry.profiles(entry, spec.shower_energies) for kind, entry in systems.items()},
     }
