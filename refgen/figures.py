@@ -187,3 +187,43 @@ def regime_figure(rows: list[dict], placed: list[dict]) -> bytes:
         ax.set_ylabel("atomic number Z (materials at their mean electron-weighted Z)")
         ax.legend(fontsize=7.5, loc="lower right")
         return to_svg(fig)
+
+
+def angle_figure(p_gev, series: list[dict], saturated_mrad: float) -> bytes:
+    """Cherenkov angle against momentum per species, with the saturated angle marked."""
+    with plt.rc_context(STYLE):
+        fig, ax = plt.subplots(figsize=(6.4, 3.8))
+        for i, s in enumerate(series):
+            ax.plot(p_gev, s["y"], label=species_tex(s["label"]), **line_style(i))
+        ax.axhline(saturated_mrad, color="#777777", linewidth=0.8, linestyle=":")
+        ax.annotate(f"β → 1: {saturated_mrad:.1f} mrad", (p_gev[0], saturated_mrad), xytext=(2, 3),
+                    textcoords="offset points", fontsize=7.5, color="#555555")
+        ax.set_xscale("log")
+        ax.set_ylim(0, saturated_mrad * 1.12)
+        ax.set_xlabel("momentum (GeV/c)")
+        ax.set_ylabel("Cherenkov angle (mrad)")
+        ax.legend(fontsize=7.5, loc="upper left", bbox_to_anchor=(1.01, 1.0))
+        return to_svg(fig)
+
+
+def windows_figure(windows: list[dict], labels: dict, p_range: tuple[float, float]) -> bytes:
+    """Threshold-mode identification windows: one horizontal band per species pair on a log momentum axis."""
+    with plt.rc_context(STYLE):
+        height = max(1.8, 0.28 * len(windows) + 0.9)
+        fig, ax = plt.subplots(figsize=(6.4, height))
+        keys = list(dict.fromkeys(w["radiates"] for w in windows))
+        for row, w in enumerate(windows):
+            st = line_style(keys.index(w["radiates"]))
+            ax.barh(row, w["to_GeV_c"] - w["from_GeV_c"], left=w["from_GeV_c"], height=0.62, color=st["color"],
+                    alpha=0.35, edgecolor=st["color"], linewidth=1.0, hatch="///" if keys.index(w["radiates"]) % 2 else None)
+            if w.get("efficient_from_GeV_c"):
+                ax.plot([w["efficient_from_GeV_c"]], [row], marker="|", markersize=9, color="#222222")
+        ax.set_yticks(range(len(windows)))
+        ax.set_yticklabels([f"{', '.join(species_tex(labels[k]) for k in w['radiates_all'])} lit, "
+                            f"{', '.join(species_tex(labels[k]) for k in w['silent_all'])} dark" for w in windows], fontsize=7)
+        ax.invert_yaxis()
+        ax.set_xscale("log")
+        ax.set_xlim(*p_range)
+        ax.set_xlabel("momentum (GeV/c)   (| : lighter species gives ≥ 3 photoelectrons)")
+        ax.grid(axis="y", visible=False)
+        return to_svg(fig)

@@ -74,6 +74,7 @@ class Material:
     temperature_K: float | None = None
     pressure_Pa: float | None = None
     scintillator: dict | None = None
+    index_density_ratio: float = 1.0
 
     @property
     def is_gas(self) -> bool:

@@ -162,6 +162,23 @@ def photon_figures(report: dict) -> dict[str, bytes]:
     return out
 
 
+def radiator_figures(report: dict) -> dict[str, bytes]:
+    """Angle and identification-window figures per radiator."""
+    from . import figures
+    kn = report["key_numbers"]
+    labels = report["species_labels"]
+    out = {}
+    for name, r in kn["radiators"].items():
+        slug = report["layer_slugs"][name]
+        c = report["radiator_curves"][name]
+        p = c["momentum_GeV_c"]
+        series = [{"label": labels[sp], "y": c[f"theta_mrad_{sp}"]} for sp in labels]
+        out[f"fig/cherenkov-angle-{slug}.svg"] = figures.angle_figure(p, series, r["saturated_angle_mrad"])
+        if r["windows"]:
+            out[f"fig/cherenkov-windows-{slug}.svg"] = figures.windows_figure(r["windows"], labels, (p[0], p[-1]))
+    return out
+
+
 def render_site(report: dict, build_info: dict) -> dict[str, bytes]:
     """Every file of the site, in memory: pages, key-numbers.json and static assets."""
     env = environment()
@@ -173,6 +190,10 @@ def render_site(report: dict, build_info: dict) -> dict[str, bytes]:
              ("charged.html", "charged.html", {"title": "Charged particles in the stack", "page": "charged"}),
              ("budget.html", "budget.html", {"title": "Material budget", "page": "budget"}),
              ("photons.html", "photons.html", {"title": "Photons", "page": "photons"})]
+    for name, r in kn["radiators"].items():
+        pages.append((f"cherenkov-{report['layer_slugs'][name]}.html", "cherenkov.html",
+                      {"title": f"Cherenkov radiator: {name}", "page": "cherenkov", "name": name, "r": r,
+                       "slug": report["layer_slugs"][name]}))
     for kind, cal in kn["calorimeters"].items():
         pages.append((f"showers-{kind}.html", "showers.html", {"title": f"Showers: {kind}", "page": "showers",
                                                                "kind": kind, "cal": cal}))
@@ -192,5 +213,6 @@ def render_site(report: dict, build_info: dict) -> dict[str, bytes]:
     files["fig/reach.svg"] = reach_figure(report)
     files.update(calorimetry_figures(report))
     files.update(photon_figures(report))
+    files.update(radiator_figures(report))
     files.update(static_assets())
     return files

@@ -7,7 +7,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from . import __version__, attenuation, calorimetry, charged
+from . import __version__, attenuation, calorimetry, charged, radiators
 from .model import SYSTEM_KINDS, Spec
 from .physics.medium import medium_of
 from .physics.radlen import radiation_length
@@ -120,9 +120,15 @@ def make_report(spec: Spec) -> dict:
         entry["photon_conversion_probability_at_1_GeV"] = entry["photon"]["conversion_probability"][-1]
         if layer.is_sampling:
             entry["effective_cell"] = calorimetry.effective_cell(spec, layer, materials)
+        scint = radiators.scintillator_numbers(spec, layer, entry, media.__getitem__)
+        if scint is not None:
+            entry["scintillator"] = scint
         layers.append(entry)
         z += layer.thickness
     reach = charged.reach_momenta(spec, tables)
+    radiator_numbers, radiator_curves = {}, {}
+    for r in spec.radiators:
+        radiator_numbers[r.layer], radiator_curves[r.layer] = radiators.radiator_numbers(spec, r, spec.momentum.values())
     budget = calorimetry.budget_totals(layers)
     survival = calorimetry.survival(layers)
     systems = calorimetry.systems_showers(spec, layers, materials)
@@ -141,6 +147,7 @@ def make_report(spec: Spec) -> dict:
         "reach_momentum_GeV_c": reach,
         "tracking_scattering": charged.cumulative_scattering(spec, x0s),
         "material_budget": budget,
+        "radiators": radiator_numbers,
         "hadron_survival": survival,
         "calorimeters": systems,
         "tracking_volume": {"x_over_X0": tracking_x0, "layers": tracking["layers"],
@@ -153,6 +160,10 @@ def make_report(spec: Spec) -> dict:
     csv_tables = {f"data/dedx/{slugs[m]}--{species_slugs[sp]}.csv": dedx_csv_rows(c) for (m, sp), c in curves.items()}
     csv_tables.update({f"data/photon/{slugs[m]}.csv": attenuation.photon_csv(spec.photon_energy.values(), c)
                        for m, c in photon_curves.items()})
+    layer_slugs = _unique_slugs([l.name for l in spec.layers])
+    for name, c in radiator_curves.items():
+        cols = list(c)
+        csv_tables[f"data/cherenkov/{layer_slugs[name]}.csv"] = (cols, [list(map(float, r)) for r in zip(*(c[k] for k in cols))])
     regime = attenuation.regime_map()
     csv_tables["data/photon-regimes.csv"] = (["Z", "symbol", "photoelectric_compton_MeV", "compton_pair_MeV"],
                                              [[r["Z"], r["symbol"], r["photoelectric_compton_MeV"], r["compton_pair_MeV"]]
@@ -174,6 +185,8 @@ def make_report(spec: Spec) -> dict:
         "validity_edges_GeV_c": {sp.key: charged.validity_edge_momentum(sp) / 1e3 for sp in spec.species},
         "species_labels": {sp.key: sp.label for sp in spec.species},
         "photon_energies_MeV": spec.photon_energy.values(),
+        "layer_slugs": layer_slugs,
+        "radiator_curves": radiator_curves,
         "photon_curves": photon_curves,
         "regime_map": regime,
         "shower_profiles": {kind: calorimetry.profiles(entry, spec.shower_energies) for kind, entry in systems.items()},

@@ -49,6 +49,7 @@ SCHEMA: dict[str, dict[str, str]] = {
         "mean_excitation_energy": "Mean excitation energy I with unit; Bragg additivity when omitted.",
         "pair_energy": "Mean energy to create one ionisation carrier (W), with unit.",
         "refractive_index": "A number, {sellmeier: {B: [...], C: [...]}} with C in um^2, or {table: {wavelength_nm: [...], n: [...]}}.",
+        "index_conditions": "{temperature, pressure} at which a gas's refractive_index was measured; (n-1) is scaled by density to the material's conditions (default: the material's own).",
         "description": "A one-line description shown on the material page.",
         "scintillator": "Scintillator response: {light_yield: photons per MeV (number), birks: kB with unit, e.g. 0.126 mm/MeV}.",
     },
@@ -406,6 +407,21 @@ def _material(ctx: _Context, name: str, value, path) -> Material | None:
         for key in ("temperature", "pressure"):
             if key in value:
                 ctx.warn(path + (key,), f"'{key}' is used only for gases; ignored for a {state or 'condensed'} material")
+    index_ratio = 1.0
+    if "index_conditions" in value:
+        cond = value["index_conditions"]
+        cpath = path + ("index_conditions",)
+        if index is None or not is_gas:
+            ctx.error(cpath, "index_conditions needs a refractive_index and a gas")
+            return None
+        if not isinstance(cond, dict) or set(cond) - {"temperature", "pressure"} or not cond:
+            ctx.error(cpath, "expected {temperature: ..., pressure: ...}")
+            return None
+        t_ref = ctx.quantity(cond.get("temperature", "20 degC"), cpath + ("temperature",), "temperature")
+        p_ref = ctx.quantity(cond.get("pressure", "1 atm"), cpath + ("pressure",), "pressure")
+        if t_ref is None or p_ref is None:
+            return None
+        index_ratio = (pressure / p_ref) * (t_ref / temperature)
     if density is None:
         if is_gas:
             density = matlib.ideal_gas_density(molar, temperature, pressure)
@@ -424,7 +440,7 @@ def _material(ctx: _Context, name: str, value, path) -> Material | None:
                     density=density, state="gas" if is_gas else (state or "solid"), mean_excitation_eV=i_ev,
                     i_source=i_src, pair_energy_eV=pair if pair is not None else w_default, refractive_index=index,
                     density_effect=de, source=source, caveats=caveats, temperature_K=temperature,
-                    pressure_Pa=pressure, scintillator=scint)
+                    pressure_Pa=pressure, scintillator=scint, index_density_ratio=index_ratio)
 
 
 def _material_base(ctx, name, value, kind, state, path):
