@@ -15,6 +15,7 @@ from . import __version__
 from .errors import BuildError
 from .render import render_site
 from .report import make_report
+from .changes import compare, load_baseline
 from .spec import load_spec
 
 MARKER = ".refgen-site"
@@ -62,16 +63,18 @@ def write_site(files: dict[str, bytes], out: Path, force: bool) -> None:
 
 
 def build(spec_path, out, *, force: bool = False, strict: bool = False, build_date: str | None = None,
-          progress=None) -> dict:
-    """Build the handbook for one spec into ``out``. Returns the report."""
+          baseline=None, single_file: bool = False, progress=None) -> dict:
+    """Build the handbook for one spec into ``out``. Returns the report (with ``changes`` when a baseline
+    key-numbers.json is given)."""
     say = progress or (lambda msg: None)
     say("validating the spec")
     spec = load_spec(spec_path, strict=strict)
     check_output_folder(Path(out).resolve(), force)
-    say("computing the numbers")
-    report = make_report(spec)
-    say("rendering the pages")
-    files = render_site(report, build_info(spec, build_date))
+    old = load_baseline(baseline) if baseline else None
+    report = make_report(spec, progress=say)
+    report["changes"] = compare(old, report["key_numbers"]) if old is not None else None
+    say("rendering the pages and figures")
+    files = render_site(report, build_info(spec, build_date), single=single_file)
     say(f"writing {len(files)} files")
     write_site(files, Path(out), force)
     return report

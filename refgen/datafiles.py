@@ -112,3 +112,9 @@ def density_effect_parameters() -> MappingProxyType:
                                                  ("mean_excitation_eV", "cbar", "x0", "x1", "a", "k", "delta0")}
                                                 | {"source": row["source"]})
     return MappingProxyType(out)
+
+
+@functools.cache
+def methods() -> tuple:
+    """The methods table shown on the methods-and-validity page (methods.csv)."""
+    return tuple(MappingProxyType(row) for _, row in _read_rows("methods.csv"))

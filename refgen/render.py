@@ -9,13 +9,16 @@ import json
 import math
 from importlib import resources
 
+import base64
 import csv
 import io
+import re
 
 import jinja2
 import markdown
 from markupsafe import Markup, escape
 
+from . import datafiles
 from .report import plain
 import nh3
 
@@ -179,17 +182,36 @@ def radiator_figures(report: dict) -> dict[str, bytes]:
     return out
 
 
-def render_site(report: dict, build_info: dict) -> dict[str, bytes]:
+def render_site(report: dict, build_info: dict, single: bool = False) -> dict[str, bytes]:
     """Every file of the site, in memory: pages, key-numbers.json and static assets."""
+    from . import handbook
     env = environment()
     kn = report["key_numbers"]
+    systems = handbook.systems(kn, report)
+    report = dict(report, has_changes=report.get("changes") is not None)
     common = {"kn": kn, "report": report, "build": build_info, "slugs": report["material_slugs"],
-              "summary_html": markdown_safe(report["summary_markdown"])}
+              "summary_html": markdown_safe(report["summary_markdown"]), "systems": systems}
     files: dict[str, bytes] = {}
-    pages = [("index.html", "index.html", {"title": kn["experiment"]["name"], "page": "index"}),
+    pages = [("index.html", "index.html", {"title": kn["experiment"]["name"], "page": "index",
+                                           "strips": handbook.stack_strips(kn)}),
+             ("quickref.html", "quickref.html", {"title": "Quick reference", "page": "quickref",
+                                                 "q": handbook.quick_reference(kn)}),
+             ("methods.html", "methods.html", {"title": "Methods and validity", "page": "methods",
+                                               "methods": [dict(m) for m in datafiles.methods()]}),
+             ("downloads.html", "downloads.html", {"title": "Downloads", "page": "downloads",
+                                                   "files": handbook.downloads(report)}),
              ("charged.html", "charged.html", {"title": "Charged particles in the stack", "page": "charged"}),
              ("budget.html", "budget.html", {"title": "Material budget", "page": "budget"}),
              ("photons.html", "photons.html", {"title": "Photons", "page": "photons"})]
+    if report["has_changes"]:
+        pages.append(("changes.html", "changes.html", {"title": "Changes since the baseline", "page": "changes",
+                                                       "c": report["changes"]}))
+    for system in systems:
+        pages.append((f"system-{system['kind']}.html", "system.html", {"title": system["title"], "page": "system",
+                                                                       "s": system}))
+    for sp in handbook.species_pages(kn, report):
+        pages.append((f"species-{report['species_slugs'][sp['key']]}.html", "species.html",
+                      {"title": f"Particle: {sp['key']}", "page": "species", "sp": sp}))
     for name, r in kn["radiators"].items():
         pages.append((f"cherenkov-{report['layer_slugs'][name]}.html", "cherenkov.html",
                       {"title": f"Cherenkov radiator: {name}", "page": "cherenkov", "name": name, "r": r,
@@ -204,6 +226,9 @@ def render_site(report: dict, build_info: dict) -> dict[str, bytes]:
     for out, template, ctx in pages:
         files[out] = env.get_template(template).render(**common, **ctx).encode("utf-8")
     files["data/key-numbers.json"] = json_bytes(kn)
+    files["static/search-index.js"] = ("window.REFGEN_INDEX = " + json.dumps(handbook.search_index(kn, report),
+                                                                            sort_keys=True, ensure_ascii=False)
+                                       + ";\n").encode("utf-8")
     for path, (header, rows) in report["csv_tables"].items():
         files[path] = csv_bytes(header, rows, f"{path.split('/')[-1]}: refgen {build_info['version']}, "
                                 f"spec {build_info['spec_hash']}; units in the column names; valid=False rows lie "
@@ -215,4 +240,33 @@ def render_site(report: dict, build_info: dict) -> dict[str, bytes]:
     files.update(photon_figures(report))
     files.update(radiator_figures(report))
     files.update(static_assets())
+    if single:
+        files["handbook.html"] = single_file(files, [p[0] for p in pages], f"{kn['experiment']['name']} handbook "
+                                             f"({kn['experiment']['revision']})")
     return files
+
+
+_MAIN = re.compile(r"<main>(.*?)</main>", re.S)
+_HREF = re.compile(r'href="([A-Za-z0-9._-]+)\.html(#[A-Za-z0-9_-]+)?"')
+_DATA_LINK = re.compile(r'<a href="(data/[^"]+)">(.*?)</a>', re.S)
+_IMG = re.compile(r'src="(fig/[^"]+\.svg)"')
+
+
+def single_file(files: dict[str, bytes], page_order: list[str], title: str) -> bytes:
+    """One self-contained HTML: every page's main content in order, figures inlined as data URIs, the
+    stylesheet inlined, internal links turned into in-document anchors and data-file links into plain names."""
+    css = files["static/style.css"].decode("utf-8")
+    parts = []
+    for page in page_order:
+        html = files[page].decode("utf-8")
+        body = _MAIN.search(html).group(1)
+        body = _DATA_LINK.sub(lambda m: f'<span class="datafile" title="in the site folder: {m.group(1)}">{m.group(2)}</span>', body)
+        body = _HREF.sub(lambda m: f'href="#page-{m.group(1)}"', body)
+        body = _IMG.sub(lambda m: 'src="data:image/svg+xml;base64,' + base64.b64encode(files[m.group(1)]).decode("ascii") + '"', body)
+        parts.append(f'<section class="single-page" id="page-{page[:-5]}">{body}</section>')
+    nav = "".join(f'<a href="#page-{p[:-5]}">{p[:-5]}</a> ' for p in page_order)
+    doc = (f'<!DOCTYPE html>\n<html lang="en"><head><meta charset="utf-8"><title>{escape(title)}</title>'
+           f'<style>{css}\n.single-page {{ border-top: 2px solid #24313d; margin-top: 2rem; }}</style></head>'
+           f'<body class="single"><header class="masthead"><div class="bar"><span class="home">{escape(title)}</span></div>'
+           f'<nav class="secondary">{nav}</nav></header><main>{"".join(parts)}</main></body></html>\n')
+    return doc.encode("utf-8")

@@ -85,8 +85,10 @@ def dedx_csv_rows(curve: dict) -> tuple[list[str], list[list]]:
     return cols, rows
 
 
-def make_report(spec: Spec) -> dict:
-    """All numbers for one spec as plain data."""
+def make_report(spec: Spec, progress=None) -> dict:
+    """All numbers for one spec as plain data. ``progress`` is told the name of each section as it starts."""
+    say = progress or (lambda msg: None)
+    say("computing: materials and energy loss")
     media = {name: medium_of(m) for name, m in spec.materials.items()}
     x0s = {name: radiation_length(*m.arrays()) for name, m in spec.materials.items()}
     min_ion = {name: charged.minimum_ionization(md) for name, md in media.items()}
@@ -109,6 +111,7 @@ def make_report(spec: Spec) -> dict:
         numbers.update(calorimetry.material_lengths(m, media[name], x0s[name]))
         numbers["photon"], photon_curves[name] = attenuation.material_photons(m, spec.photon_energy.values())
         materials[name] = numbers
+    say("computing: photons")
     layer_coeffs = attenuation.layer_energy_coefficients(spec)
     layers, z = [], 0.0
     for layer in spec.layers:
@@ -125,6 +128,7 @@ def make_report(spec: Spec) -> dict:
             entry["scintillator"] = scint
         layers.append(entry)
         z += layer.thickness
+    say("computing: reach, budget, showers and radiators")
     reach = charged.reach_momenta(spec, tables)
     radiator_numbers, radiator_curves = {}, {}
     for r in spec.radiators:
@@ -164,6 +168,18 @@ def make_report(spec: Spec) -> dict:
     for name, c in radiator_curves.items():
         cols = list(c)
         csv_tables[f"data/cherenkov/{layer_slugs[name]}.csv"] = (cols, [list(map(float, r)) for r in zip(*(c[k] for k in cols))])
+    names = [l["name"] for l in layers]
+    csv_tables["data/reach.csv"] = (["layer"] + [f"{sp}_GeV_c" for sp in reach],
+                                    [[n] + [reach[sp][n] for sp in reach] for n in names])
+    csv_tables["data/budget.csv"] = (["layer", "system", "x_over_X0", "cumulative_X0", "x_over_lambda_I",
+                                      "cumulative_lambda_I", "hadron_survival"],
+                                     [[r["layer"], r["system"], r["x_over_X0"], r["cumulative_X0"], r["x_over_lambda_I"],
+                                       r["cumulative_lambda_I"], sv["survival_probability"]]
+                                      for r, sv in zip(budget["rows"], survival)])
+    shower_profiles = {kind: calorimetry.profiles(entry, spec.shower_energies) for kind, entry in systems.items()}
+    for kind, prof in shower_profiles.items():
+        csv_tables[f"data/showers-{kind}.csv"] = (["depth_X0"] + [s["label"].replace(" ", "_") for s in prof["series"]],
+                                                  [list(map(float, r)) for r in zip(prof["t_X0"], *(s["y"] for s in prof["series"]))])
     regime = attenuation.regime_map()
     csv_tables["data/photon-regimes.csv"] = (["Z", "symbol", "photoelectric_compton_MeV", "compton_pair_MeV"],
                                              [[r["Z"], r["symbol"], r["photoelectric_compton_MeV"], r["compton_pair_MeV"]]
@@ -189,5 +205,10 @@ def make_report(spec: Spec) -> dict:
         "radiator_curves": radiator_curves,
         "photon_curves": photon_curves,
         "regime_map": regime,
-        "shower_profiles": {kind: calorimetry.profiles(entry, spec.shower_energies) for kind, entry in systems.items()},
+        "shower_profiles": shower_profiles,
+        "shower_energy_keys": [f"{e / 1e3:g}" for e in spec.shower_energies],
+        "csv_descriptions": {"data/reach.csv": "momentum each species needs to reach each layer",
+                             "data/budget.csv": "material budget and hadron survival per layer",
+                             "data/photon-regimes.csv": "photon-regime crossover energies for Z = 1-98",
+                             **{f"data/showers-{k}.csv": f"longitudinal shower profiles in the {k}" for k in systems}},
     }
