@@ -27,6 +27,12 @@ def build_info(spec, build_date: str | None) -> dict:
             "revision": spec.experiment.revision, "build_date": build_date}
 
 
+def figure_cache_dir() -> Path:
+    """Where drawn figures are kept by content hash: $REFGEN_CACHE, else ~/.cache/refgen/figures."""
+    root = os.environ.get("REFGEN_CACHE") or os.path.join(os.path.expanduser("~"), ".cache", "refgen")
+    return Path(root) / "figures"
+
+
 def check_output_folder(out: Path, force: bool) -> None:
     """Refuse to replace a non-empty folder that refgen did not create, unless forced."""
     if out.exists() and not out.is_dir():
@@ -63,7 +69,8 @@ def write_site(files: dict[str, bytes], out: Path, force: bool) -> None:
 
 
 def build(spec_path, out, *, force: bool = False, strict: bool = False, build_date: str | None = None,
-          baseline=None, single_file: bool = False, progress=None) -> dict:
+          baseline=None, single_file: bool = False, workers: int | None = None, cache: bool = True,
+          progress=None) -> dict:
     """Build the handbook for one spec into ``out``. Returns the report (with ``changes`` when a baseline
     key-numbers.json is given)."""
     say = progress or (lambda msg: None)
@@ -74,7 +81,9 @@ def build(spec_path, out, *, force: bool = False, strict: bool = False, build_da
     report = make_report(spec, progress=say)
     report["changes"] = compare(old, report["key_numbers"]) if old is not None else None
     say("rendering the pages and figures")
-    files = render_site(report, build_info(spec, build_date), single=single_file)
+    files = render_site(report, build_info(spec, build_date), single=single_file,
+                        workers=workers or min(2, os.cpu_count() or 1),
+                        cache_dir=figure_cache_dir() if cache else None)
     say(f"writing {len(files)} files")
     write_site(files, Path(out), force)
     return report

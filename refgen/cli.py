@@ -29,6 +29,7 @@ def _parser() -> argparse.ArgumentParser:
     b.add_argument("--strict", action="store_true", help="treat spec warnings as errors")
     b.add_argument("--build-date", help="a date to print on the pages (none by default, for reproducible builds)")
     b.add_argument("--quiet", action="store_true", help="no progress output")
+    b.add_argument("--no-cache", action="store_true", help="redraw every figure (ignore the figure cache)")
     b.add_argument("--single-file", action="store_true", help="also write DIR/handbook.html, one self-contained file")
     b.add_argument("--baseline", help="an earlier key-numbers.json: write a changes page listing every number that moved")
     b.add_argument("--fail-on-change", type=float, metavar="TOL",
@@ -89,7 +90,8 @@ def main(argv=None) -> int:
         progress = None if quiet else (lambda msg: print(f"refgen: {msg}", file=sys.stderr))
         spec_path = args.spec or demo_spec_path()
         report = build(spec_path, args.out, force=args.force, strict=args.strict, build_date=args.build_date,
-                       baseline=args.baseline, single_file=args.single_file, progress=progress)
+                       baseline=args.baseline, single_file=args.single_file, cache=not args.no_cache,
+                       progress=progress)
         for w in report["warnings"]:
             print(f"warning: {w}", file=sys.stderr)
         for n in report["notes"]:

@@ -4,8 +4,15 @@ Each function takes plain data and returns SVG bytes. Species are told apart by 
 """
 from __future__ import annotations
 
+import functools
+import hashlib
 import io
 import math
+import multiprocessing
+import re
+import sys
+from concurrent.futures import ProcessPoolExecutor
+from pathlib import Path
 
 import matplotlib
 
@@ -17,7 +24,7 @@ import numpy as np  # noqa: E402
 PALETTE = ["#0072B2", "#D55E00", "#009E73", "#CC79A7", "#E69F00", "#56B4E9", "#000000", "#F0E442"]
 DASHES = ["-", "--", "-.", ":", (0, (5, 1, 1, 1)), (0, (3, 1, 1, 1, 1, 1)), (0, (8, 2)), (0, (1, 1))]
 STYLE = {
-    "svg.hashsalt": "refgen", "svg.fonttype": "path", "font.family": "DejaVu Sans", "font.size": 9,
+    "svg.hashsalt": "refgen", "svg.fonttype": "none", "font.family": ["DejaVu Sans", "sans-serif"], "font.size": 9,
     "axes.grid": True, "grid.color": "#d9dde2", "grid.linewidth": 0.6, "axes.edgecolor": "#59636e",
     "axes.spines.top": False, "axes.spines.right": False, "legend.frameon": False, "lines.linewidth": 1.6,
     "figure.dpi": 100,
@@ -36,6 +43,9 @@ def species_tex(label: str) -> str:
     return f"${greek[label]}$" if label in greek else label
 
 
+_METADATA = re.compile(rb"\s*<metadata>.*?</metadata>", re.S)
+
+
 def line_style(i: int) -> dict:
     """Colour and dash for the i-th series."""
     return {"color": PALETTE[i % len(PALETTE)], "linestyle": DASHES[i % len(DASHES)]}
@@ -46,7 +56,7 @@ def to_svg(fig) -> bytes:
     buf = io.BytesIO()
     fig.savefig(buf, format="svg", metadata={"Date": None, "Creator": None}, bbox_inches="tight")
     plt.close(fig)
-    return buf.getvalue()
+    return _METADATA.sub(b"", buf.getvalue())
 
 
 def species_curves(series: list[dict], xlabel: str, ylabel: str, edge_label: str, marks=()) -> bytes:
@@ -227,3 +237,70 @@ def windows_figure(windows: list[dict], labels: dict, p_range: tuple[float, floa
         ax.set_xlabel("momentum (GeV/c)   (| : lighter species gives ≥ 3 photoelectrons)")
         ax.grid(axis="y", visible=False)
         return to_svg(fig)
+
+
+
+def _digest(obj, h) -> None:
+    """Feed a figure job's arguments into a hash: numbers, strings, arrays, lists and dicts."""
+    if isinstance(obj, np.ndarray):
+        h.update(b"A" + str(obj.dtype).encode() + str(obj.shape).encode() + np.ascontiguousarray(obj).tobytes())
+    elif isinstance(obj, dict):
+        h.update(b"D")
+        for k in sorted(obj, key=str):
+            _digest(str(k), h)
+            _digest(obj[k], h)
+    elif isinstance(obj, (list, tuple)):
+        h.update(b"L" + str(len(obj)).encode())
+        for v in obj:
+            _digest(v, h)
+    else:
+        h.update(b"S" + repr(obj).encode())
+
+
+@functools.cache
+def _code_version() -> bytes:
+    """This module's source and matplotlib's version: a change to either invalidates every cached figure."""
+    return Path(__file__).read_bytes() + matplotlib.__version__.encode()
+
+
+def job_key(job: tuple) -> str:
+    """Content hash of a figure job (function, arguments, drawing code)."""
+    h = hashlib.sha256(_code_version())
+    _digest(job, h)
+    return h.hexdigest()
+
+
+def draw(job: tuple) -> bytes:
+    """Draw one figure job: (function name, arguments)."""
+    name, args = job
+    return globals()[name](*args)
+
+
+def draw_all(jobs: dict[str, tuple], workers: int = 1, cache_dir=None) -> dict[str, bytes]:
+    """Draw every figure, in a process pool when workers > 1, reusing cached SVGs with the same content hash."""
+    out: dict[str, bytes] = {}
+    todo: dict[str, tuple] = {}
+    cache = Path(cache_dir) if cache_dir else None
+    keys = {path: job_key(job) for path, job in jobs.items()}
+    for path, job in jobs.items():
+        hit = cache / f"{keys[path]}.svg" if cache else None
+        if hit is not None and hit.is_file():
+            out[path] = hit.read_bytes()
+        else:
+            todo[path] = job
+    if todo:
+        paths = sorted(todo)
+        if workers > 1 and len(paths) > 1:
+            ctx = multiprocessing.get_context("spawn" if sys.platform == "darwin" else "fork")
+            with ProcessPoolExecutor(max_workers=workers, mp_context=ctx) as pool:
+                drawn = list(pool.map(draw, [todo[p] for p in paths], chunksize=1))
+        else:
+            drawn = [draw(todo[p]) for p in paths]
+        for path, svg in zip(paths, drawn):
+            out[path] = svg
+            if cache is not None:
+                cache.mkdir(parents=True, exist_ok=True)
+                tmp = cache / f".{keys[path]}.tmp"
+                tmp.write_bytes(svg)
+                tmp.replace(cache / f"{keys[path]}.svg")
+    return out

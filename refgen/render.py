@@ -19,6 +19,7 @@ import markdown
 from markupsafe import Markup, escape
 
 from . import datafiles
+from .figures import draw_all
 from .report import plain
 import nh3
 
@@ -109,9 +110,13 @@ def csv_bytes(header: list[str], rows: list[list], comment: str) -> bytes:
     return buf.getvalue().encode("utf-8")
 
 
-def material_figures(report: dict, name: str) -> dict[str, bytes]:
+def _job(name: str, *args) -> tuple:
+    """A figure to draw later: the name of a refgen.figures function and its plain-data arguments."""
+    return (name, args)
+
+
+def material_figures(report: dict, name: str) -> dict[str, tuple]:
     """The dE/dx and range figures of one material."""
-    from . import figures
     slug = report["material_slugs"][name]
     labels = report["species_labels"]
     dedx, rng = [], []
@@ -124,50 +129,46 @@ def material_figures(report: dict, name: str) -> dict[str, bytes]:
     mark = [(mi["beta_gamma"] * 0.1056583755, mi["dedx_MeV_cm2_g"], f"muon minimum {mi['dedx_MeV_cm2_g']:.3f} MeV cm²/g")]
     edge = "limited validity (Bethe below βγ = 0.05; electrons below 10 keV)"
     return {
-        f"fig/dedx-{slug}.svg": figures.species_curves(dedx, "momentum (GeV/c)", "mass stopping power (MeV cm²/g)", edge, mark),
-        f"fig/range-{slug}.svg": figures.species_curves(rng, "momentum (GeV/c)", "CSDA range (g/cm²)", edge),
+        f"fig/dedx-{slug}.svg": _job("species_curves", dedx, "momentum (GeV/c)", "mass stopping power (MeV cm²/g)", edge, mark),
+        f"fig/range-{slug}.svg": _job("species_curves", rng, "momentum (GeV/c)", "CSDA range (g/cm²)", edge),
     }
 
 
-def reach_figure(report: dict) -> bytes:
-    from . import figures
+def reach_figure(report: dict) -> tuple:
     kn = report["key_numbers"]
     names = [l["name"] for l in kn["layers"]]
     series = [{"label": report["species_labels"][sp], "y": [row[n] for n in names]} for sp, row in kn["reach_momentum_GeV_c"].items()]
-    return figures.reach_figure(names, series)
+    return _job("reach_figure", names, series)
 
 
-def calorimetry_figures(report: dict) -> dict[str, bytes]:
+def calorimetry_figures(report: dict) -> dict[str, tuple]:
     """The material-budget figure and one shower-profile figure per calorimeter system."""
-    from . import figures
     rows = report["key_numbers"]["material_budget"]["rows"]
-    out = {"fig/budget.svg": figures.budget_figure([r["layer"] for r in rows], [r["cumulative_X0"] for r in rows],
+    out = {"fig/budget.svg": _job("budget_figure", [r["layer"] for r in rows], [r["cumulative_X0"] for r in rows],
                                                    [r["cumulative_lambda_I"] for r in rows])}
     for kind, prof in report["shower_profiles"].items():
         depth = report["key_numbers"]["calorimeters"][kind]["depth_X0"]
-        out[f"fig/showers-{kind}.svg"] = figures.profile_figure(prof["t_X0"], prof["series"], depth)
+        out[f"fig/showers-{kind}.svg"] = _job("profile_figure", prof["t_X0"], prof["series"], depth)
     return out
 
 
-def photon_figures(report: dict) -> dict[str, bytes]:
+def photon_figures(report: dict) -> dict[str, tuple]:
     """One by-process figure per material and the regime map."""
-    from . import figures
     kn = report["key_numbers"]
     e = report["photon_energies_MeV"]
     out = {}
     placed = []
     for name, slug in report["material_slugs"].items():
         ph = kn["materials"][name]["photon"]
-        out[f"fig/photon-{slug}.svg"] = figures.photon_figure(e, report["photon_curves"][name], ph["dominance_bands"])
+        out[f"fig/photon-{slug}.svg"] = _job("photon_figure", e, report["photon_curves"][name], ph["dominance_bands"])
         placed.append({"name": name, "z": kn["materials"][name]["z_eff"], "pc": ph["photoelectric_compton_crossover_MeV"],
                        "cp": ph["compton_pair_crossover_MeV"]})
-    out["fig/photon-regimes.svg"] = figures.regime_figure(report["regime_map"]["rows"], placed)
+    out["fig/photon-regimes.svg"] = _job("regime_figure", report["regime_map"]["rows"], placed)
     return out
 
 
-def radiator_figures(report: dict) -> dict[str, bytes]:
+def radiator_figures(report: dict) -> dict[str, tuple]:
     """Angle and identification-window figures per radiator."""
-    from . import figures
     kn = report["key_numbers"]
     labels = report["species_labels"]
     out = {}
@@ -176,13 +177,14 @@ def radiator_figures(report: dict) -> dict[str, bytes]:
         c = report["radiator_curves"][name]
         p = c["momentum_GeV_c"]
         series = [{"label": labels[sp], "y": c[f"theta_mrad_{sp}"]} for sp in labels]
-        out[f"fig/cherenkov-angle-{slug}.svg"] = figures.angle_figure(p, series, r["saturated_angle_mrad"])
+        out[f"fig/cherenkov-angle-{slug}.svg"] = _job("angle_figure", p, series, r["saturated_angle_mrad"])
         if r["windows"]:
-            out[f"fig/cherenkov-windows-{slug}.svg"] = figures.windows_figure(r["windows"], labels, (p[0], p[-1]))
+            out[f"fig/cherenkov-windows-{slug}.svg"] = _job("windows_figure", r["windows"], labels, (p[0], p[-1]))
     return out
 
 
-def render_site(report: dict, build_info: dict, single: bool = False) -> dict[str, bytes]:
+def render_site(report: dict, build_info: dict, single: bool = False, workers: int = 1,
+                cache_dir=None) -> dict[str, bytes]:
     """Every file of the site, in memory: pages, key-numbers.json and static assets."""
     from . import handbook
     env = environment()
@@ -233,12 +235,13 @@ def render_site(report: dict, build_info: dict, single: bool = False) -> dict[st
         files[path] = csv_bytes(header, rows, f"{path.split('/')[-1]}: refgen {build_info['version']}, "
                                 f"spec {build_info['spec_hash']}; units in the column names; valid=False rows lie "
                                 "below the model's validity edge")
+    jobs = {"fig/reach.svg": reach_figure(report)}
     for name in report["material_slugs"]:
-        files.update(material_figures(report, name))
-    files["fig/reach.svg"] = reach_figure(report)
-    files.update(calorimetry_figures(report))
-    files.update(photon_figures(report))
-    files.update(radiator_figures(report))
+        jobs.update(material_figures(report, name))
+    jobs.update(calorimetry_figures(report))
+    jobs.update(photon_figures(report))
+    jobs.update(radiator_figures(report))
+    files.update(draw_all(jobs, workers=workers, cache_dir=cache_dir))
     files.update(static_assets())
     if single:
         files["handbook.html"] = single_file(files, [p[0] for p in pages], f"{kn['experiment']['name']} handbook "
