@@ -7,7 +7,12 @@
   function score(entry, words) {
     var hay = (entry.t + " " + entry.k).toLowerCase();
     for (var i = 0; i < words.length; i++) { if (hay.indexOf(words[i]) < 0) { return -1; } }
-    return entry.t.toLowerCase().indexOf(words[0]) >= 0 ? 2 : 1;
+    var title = entry.t.toLowerCase();
+    var name = title.slice(title.indexOf(": ") + 2);
+    var query = words.join(" ");
+    if (name === query) { return 4; }
+    if (name.indexOf(query) === 0) { return 3; }
+    return title.indexOf(words[0]) >= 0 ? 2 : 1;
   }
   function show() {
     var words = input.value.toLowerCase().split(/\s+/).filter(function (w) { return w.length > 0; });
