@@ -18,6 +18,7 @@ ELECTRON_T_LOW = 0.01  # MeV: lower end of the Rohrlich-Carlson form's validity 
 RESTRICTED_CUT_MEV = 0.1  # delta-ray cut for the restricted energy loss shown per layer
 ROUND_MOMENTA = (0.1e3, 0.3e3, 1e3, 3e3, 10e3, 30e3, 100e3)  # MeV/c, for the per-material table
 MUON_MASS = 105.6583755
+VAVILOV_GAUSSIAN_KAPPA = 0.1  # above this the straggling is nearly Gaussian (RPP 2024 Sec. 34.2.9; Vavilov 1957)
 FC_PER_CARRIER = 1.602176634e-4  # elementary charge in fC (CODATA 2018, exact)
 
 
@@ -112,7 +113,11 @@ def layer_signals(spec, layer, media, x0s, min_ion) -> dict:
     mpv = float(most_probable_loss(bg, 1, medium, x))
     kappa = float(vavilov_kappa(bg, MUON_MASS, 1, medium, x))
     w_ev = m.pair_energy_eV
-    carriers = mpv * 1e6 / w_ev if w_ev else None
+    thick = kappa >= VAVILOV_GAUSSIAN_KAPPA
+    fwhm = float(landau_fwhm(bg, 1, medium, x))
+    if thick:  # the loss is close to Gaussian about the mean: no Landau peak to quote
+        mpv = fwhm = None
+    carriers = mpv * 1e6 / w_ev if (w_ev and mpv is not None) else None
     x_over_x0 = layer.thickness and sum(s.thickness * spec.materials[s.material].density / x0s[s.material]
                                         for s in layer.slabs) * layer.repeat
     theta0 = float(highland_theta0(1e3, MUON_MASS, 1, x_over_x0)) * 1e3
@@ -122,7 +127,9 @@ def layer_signals(spec, layer, media, x0s, min_ion) -> dict:
         "mip_beta_gamma": bg,
         "mip_mean_MeV": mean,
         "mip_most_probable_MeV": mpv,
-        "mip_fwhm_MeV": float(landau_fwhm(bg, 1, medium, x)),
+        "mip_fwhm_MeV": fwhm,
+        "mip_most_probable_note": (f"not given: thick layer (kappa = {kappa:.3g} >= {VAVILOV_GAUSSIAN_KAPPA:g}); "
+                                   "the loss is close to a Gaussian about the mean") if thick else None,
         "mip_restricted_MeV": float(restricted_stopping(bg, MUON_MASS, 1, medium, RESTRICTED_CUT_MEV)) * x,
         "landau_kappa": kappa,
         "landau_valid": kappa < 0.01,
