@@ -1,0 +1,62 @@
+"""Regression pins: key numbers of the demo handbook (project_spec/kestrel-forward.yaml).
+
+These are refgen's own outputs, pinned so that any change to them is deliberate: when physics is improved on
+purpose, update the value here in the same commit and say why in its message. The physics itself is checked
+against outside references in tests/physics/.
+"""
+import pytest
+
+from refgen.report import make_report
+
+PINS = [
+    ("materials.silicon.min_ionization.dedx_MeV_cm2_g", 1.6632462773595593),
+    ("materials.crystal.radiation_length_cm", 0.8924137697000476),
+    ("materials.crystal.moliere_radius_cm", 1.975657310079277),
+    ("materials.iron.nuclear_interaction_length_g_cm2", 132.43438914499367),
+    ("materials.iron.muon_critical_energy_GeV", 329.76311890061606),
+    ("materials.drift-gas.density_g_cm3", 0.0017113905631388612),
+    ("materials.heavy-gas.density_g_cm3", 0.00989510885871246),
+    ("materials.crystal.photon.compton_pair_crossover_MeV", 6.6087424982556895),
+    ("materials.silicon.photon.mass_attenuation_cm2_g.1", 0.06354225213967167),
+    ("layers.pixel-1.mip_most_probable_MeV", 0.03728135447327446),
+    ("layers.pixel-1.mip_carriers", 10298.716705324436),
+    ("layers.drift-chamber.theta0_mrad_at_1_GeV_c", 0.7274246514086958),
+    ("layers.crystal-calorimeter.x_over_X0", 24.652241759329307),
+    ("layers.hadron-calorimeter.x_over_lambda_I", 6.202047379848683),
+    ("layers.hadron-calorimeter.scintillator.mip_photons", 9919.024039281445),
+    ("reach_momentum_GeV_c.muon.muon-chamber-2", 2.7215561143450544),
+    ("reach_momentum_GeV_c.proton.crystal-calorimeter", 0.36094953371418814),
+    ("tracking_volume.photon_conversion_probability_at_1_GeV", 0.01751940457374853),
+    ("radiators.threshold-aerogel.threshold_momentum_GeV_c.kaon", 2.000480157177543),
+    ("radiators.heavy-gas-radiator.photoelectrons_at_beta_1", 54.604849030825655),
+    ("calorimeters.em-calorimeter.shower.10.containment_fraction", 0.9976038974771918),
+    ("calorimeters.hadron-calorimeter.sampling_fraction_mip", 0.034409484878548814),
+]
+
+
+@pytest.fixture(scope="module")
+def key_numbers(demo_spec):
+    return make_report(demo_spec)["key_numbers"]
+
+
+def lookup(kn, dotted):
+    parts = dotted.split(".")
+    node = kn
+    i = 0
+    while i < len(parts):
+        part = parts[i]
+        if isinstance(node, list):
+            node = next(item for item in node if item["name"] == part)
+        elif part in node:
+            node = node[part]
+        else:  # keys that contain a dot, such as the energy "0.1"
+            j = next(j for j in range(i + 2, len(parts) + 1) if ".".join(parts[i:j]) in node)
+            node = node[".".join(parts[i:j])]
+            i = j - 1
+        i += 1
+    return node
+
+
+@pytest.mark.parametrize("key, value", PINS, ids=[p[0] for p in PINS])
+def test_demo_key_number_is_pinned(key_numbers, key, value):
+    assert lookup(key_numbers, key) == pytest.approx(value, rel=1e-9)
