@@ -2,7 +2,6 @@
 transmission, and the regime map over Z). Plain data out; the physics is in refgen.physics.photons."""
 from __future__ import annotations
 
-import functools
 import math
 
 import numpy as np
@@ -98,16 +97,21 @@ def tracking_volume_photons(spec, coeffs) -> dict:
     return out
 
 
-@functools.cache
 def regime_map() -> dict:
-    """For Z = 1-98, the photoelectric = Compton and Compton = pair energies (MeV), from the same model."""
+    """For Z = 1-98, the photoelectric = Compton and Compton = pair energies (MeV), from the same model,
+    as tabulated by tools/make_photon_regimes.py (refgen/data/photon_regimes.csv)."""
+    return {"rows": [dict(r) for r in datafiles.photon_regimes()]}
+
+
+def compute_regime_rows() -> list[dict]:
+    """The regime map computed afresh from refgen.physics.photons (used by the tool that writes the table)."""
     rows = []
     for z in range(1, REGIME_MAX_Z + 1):
         el, a = element_symbol_and_mass(z)
         c = element_coefficients(FINE_GRID, z, el, a)
         pe_c, c_pair = crossover_energies(FINE_GRID, c)
         rows.append({"Z": z, "symbol": el, "photoelectric_compton_MeV": pe_c, "compton_pair_MeV": c_pair})
-    return {"rows": rows}
+    return rows
 
 
 def element_symbol_and_mass(z: int) -> tuple[str, float]:

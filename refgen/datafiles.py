@@ -118,3 +118,14 @@ def density_effect_parameters() -> MappingProxyType:
 def methods() -> tuple:
     """The methods table shown on the methods-and-validity page (methods.csv)."""
     return tuple(MappingProxyType(row) for _, row in _read_rows("methods.csv"))
+
+
+@functools.cache
+def photon_regimes() -> tuple:
+    """The photon-regime map by Z (photon_regimes.csv, generated from refgen's own photon model)."""
+    out = []
+    for n, row in _read_rows("photon_regimes.csv"):
+        out.append(MappingProxyType({"Z": int(_number("photon_regimes.csv", n, row, "Z")), "symbol": row["symbol"],
+                                     "photoelectric_compton_MeV": _number("photon_regimes.csv", n, row, "photoelectric_compton_MeV"),
+                                     "compton_pair_MeV": _number("photon_regimes.csv", n, row, "compton_pair_MeV")}))
+    return tuple(out)

@@ -1,7 +1,8 @@
 """Spec loading and validation: YAML text -> a validated ``model.Spec`` in internal units.
 
 Validation collects every problem as (YAML path, line, message) and raises one SpecError holding all of them.
-Unknown keys are warnings that name the closest valid key; ``strict=True`` makes warnings fatal.
+Unknown keys are errors that name the closest valid key. Warnings (a key that is ignored, fractions that were
+normalised) are printed; ``strict=True`` makes them fatal.
 The schema is declared in SCHEMA below, one documented entry per key, and the README is written from it.
 """
 from __future__ import annotations
@@ -104,7 +105,7 @@ class _Context:
             if key not in allowed:
                 close = difflib.get_close_matches(key, list(allowed), n=1, cutoff=0.6)
                 hint = f"; did you mean '{close[0]}'?" if close else f"; valid keys: {', '.join(allowed)}"
-                self.warn(tuple(path) + (key,), f"unknown key '{key}'{hint}")
+                self.error(tuple(path) + (key,), f"unknown key '{key}'{hint}")
         ok = True
         for key in required:
             if key not in value:
@@ -293,6 +294,8 @@ def _fractions(ctx: _Context, mixture, path) -> dict[str, float] | None:
     total = sum(out.values())
     for scale in (1.0, 100.0):
         if abs(total - scale) <= 0.01 * scale:
+            if abs(total - scale) > 1e-9 * scale:
+                ctx.warn(path, f"fractions add up to {total:g}, not {scale:g}; normalised")
             return {k: v / total for k, v in out.items()}
     ctx.error(path, f"fractions add up to {total:g}; they must add up to 1 or to 100 (within 1%)")
     return None
@@ -335,7 +338,7 @@ def _scintillator(ctx: _Context, value, path) -> dict | None:
         return None
     unknown = set(value) - {"light_yield", "birks"}
     for key in unknown:
-        ctx.warn(tuple(path) + (key,), f"unknown key '{key}'; valid keys: light_yield, birks")
+        ctx.error(tuple(path) + (key,), f"unknown key '{key}'; valid keys: light_yield, birks")
     out = {"light_yield_per_MeV": 10000.0, "light_yield_is_default": "light_yield" not in value,
            "birks_cm_per_MeV": 0.0126, "birks_is_default": "birks" not in value}
     if "light_yield" in value:

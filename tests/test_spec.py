@@ -59,11 +59,16 @@ def test_fractions_that_do_not_add_up_are_rejected():
         "line 5: materials.gas.mixture: fractions add up to 90; they must add up to 1 or to 100 (within 1%)"]
 
 
-def test_misspelt_key_is_a_warning_naming_the_closest_key_and_fatal_when_strict():
+def test_misspelt_key_is_an_error_naming_the_closest_key():
     text = BASE.replace("thickness: 300 um", "thicknes: 300 um, thickness: 300 um")
-    assert parse_spec(text).warnings == ("line 7: layers[0].thicknes: unknown key 'thicknes'; did you mean 'thickness'?",)
+    assert problems(text) == ["line 7: layers[0].thicknes: unknown key 'thicknes'; did you mean 'thickness'?"]
+
+
+def test_near_miss_fractions_are_normalised_with_a_warning_fatal_when_strict():
+    text = BASE.replace("{Ar: 70, CO2: 30}", "{Ar: 70, CO2: 30.5}")
+    assert parse_spec(text).warnings == ("line 5: materials.gas.mixture: fractions add up to 100.5, not 100; normalised",)
     assert problems(text, strict=True) == [
-        "line 7: layers[0].thicknes: unknown key 'thicknes'; did you mean 'thickness'? (a warning, fatal with --strict)"]
+        "line 5: materials.gas.mixture: fractions add up to 100.5, not 100; normalised (a warning, fatal with --strict)"]
 
 
 def test_wrong_unit_names_the_field_and_line():
