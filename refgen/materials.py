@@ -37,6 +37,8 @@ def parse_formula(text: str) -> dict[int, float]:
         z = getattr(el, "number", 0)
         if not 1 <= z <= 92:
             raise FormulaError(f"'{text}': element {el} is not among Z = 1-92")
+        if not float(n) > 0:
+            raise FormulaError(f"'{text}': element {el} has a count of {n}; counts must be positive")
         counts[z] = counts.get(z, 0.0) + float(n)
     if not counts:
         raise FormulaError(f"'{text}' names no element")

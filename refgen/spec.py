@@ -577,7 +577,7 @@ def _layers(ctx: _Context, data, materials: dict, material_names: set) -> tuple[
             continue
         seen.add(name)
         system = item["system"]
-        if system not in SYSTEM_KINDS:
+        if not isinstance(system, str) or system not in SYSTEM_KINDS:
             close = difflib.get_close_matches(str(system), list(SYSTEM_KINDS), n=1)
             hint = f"; did you mean '{close[0]}'?" if close else f"; one of {', '.join(SYSTEM_KINDS)}"
             ctx.error(path + ("system",), f"unknown system kind '{system}'{hint}")
@@ -684,7 +684,8 @@ def validate(data, lines: dict, source: str = "spec", strict: bool = False, text
     mats = _materials(ctx, data)
     material_names = set(data.get("materials", {}) or {}) if isinstance(data.get("materials"), dict) else set()
     layers = _layers(ctx, data, mats, material_names)
-    layer_names = {item.get("name") for item in data.get("layers", []) if isinstance(item, dict)} \
+    layer_names = {item["name"] for item in data.get("layers", [])
+                   if isinstance(item, dict) and isinstance(item.get("name"), str)} \
         if isinstance(data.get("layers"), list) else set()
     radiators = _radiators(ctx, data, layers, mats, layer_names)
     problems = list(ctx.problems)

@@ -25,6 +25,8 @@ def load_with_lines(text: str, source: str = "spec") -> tuple[object, dict[Path,
         raise SpecError([Problem("", line, f"YAML syntax error{col}: {exc.problem or exc.context}")], source) from None
     except yaml.YAMLError as exc:
         raise SpecError([Problem("", None, f"YAML error: {exc}")], source) from None
+    except SpecError as exc:
+        raise SpecError(exc.problems, source) from None
     finally:
         loader.dispose()
     return data, lines

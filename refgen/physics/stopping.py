@@ -10,6 +10,7 @@ from __future__ import annotations
 import math
 
 import numpy as np
+from scipy.special import digamma
 
 from .. import datafiles
 from .density_effect import sternheimer_delta
@@ -40,16 +41,16 @@ def shell_correction(bg, i_ev: float):
             + (3.858019 * e2 - 0.1667989 * e4 + 0.00157955 * e6) * 1e-9 * i_ev ** 3)
 
 
-def bloch_correction(beta, z: int, terms: int = 200):
-    """Bloch correction to the stopping number, -y^2 sum_n 1/(n (n^2 + y^2)), y = z alpha / beta.
+def bloch_correction(beta, z: int):
+    """Bloch correction to the stopping number, -y^2 sum_n 1/(n (n^2 + y^2)) = psi(1) - Re psi(1 + i y),
+    y = z alpha / beta (psi the digamma function).
 
     F. Bloch, Ann. Phys. 16 (1933) 285; Review of Particle Physics 2024, Sec. 34.2.5. Matters for large z
     and small beta; it is added to the Bethe bracket.
     """
     alpha = datafiles.constant("fine_structure")
-    y2 = (z * alpha / np.asarray(beta, dtype=float)) ** 2
-    n = np.arange(1, terms + 1, dtype=float)
-    return -y2 * np.sum(1.0 / (n * (n ** 2 + y2[..., None])), axis=-1)
+    y = z * alpha / np.asarray(beta, dtype=float)
+    return float(digamma(1.0)) - np.real(digamma(1.0 + 1j * y))
 
 
 def bethe_stopping(p, mass: float, z: int, medium):

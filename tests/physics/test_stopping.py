@@ -112,3 +112,13 @@ def test_stopping_power_is_positive_and_continuous():
         s = bethe_stopping(p, PROTON, 1, medium(key))
         assert np.all(s > 0)
         assert np.all(np.abs(np.diff(np.log(s))) < 0.1), key
+
+
+def test_bloch_correction_closed_form_matches_its_series():
+    # analytic identity: -y^2 sum_n 1/(n (n^2 + y^2)) = psi(1) - Re psi(1 + i y) (Bloch 1933)
+    from refgen.physics.stopping import bloch_correction
+    beta = np.array([0.05, 0.1, 0.5, 0.99])
+    y2 = (2 * 7.2973525693e-3 / beta) ** 2
+    n = np.arange(1, 200001, dtype=float)
+    series = -y2 * np.array([np.sum(1.0 / (n * (n * n + v))) for v in y2])
+    assert np.allclose(bloch_correction(beta, 2), series, rtol=1e-6)

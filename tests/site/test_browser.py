@@ -75,3 +75,38 @@ def test_quick_reference_prints_on_one_page(browser, site, paper):
     pages = len(re.findall(rb"/Type\s*/Page[^s]", pdf))
     assert pages == 1, f"{paper}: {pages} pages"
     page.close()
+
+
+HOSTILE = """\
+experiment:
+  name: "<script>window.__pwned = 1</script>Rig"
+  revision: "<img src=x onerror=\\"window.__pwned = 2\\">"
+  summary: |
+    Hello <script>window.__pwned = 3</script> and <img src=x onerror="window.__pwned = 4">
+    [click](javascript:window.__pwned=5) <a href="#" onclick="window.__pwned = 6">x</a>
+particles: [muon]
+materials:
+  "<b onmouseover=window.__pwned=7>si</b>": {library: silicon, description: "<script>window.__pwned = 8</script>"}
+layers:
+  - {name: "<svg onload=window.__pwned=9>", material: "<b onmouseover=window.__pwned=7>si</b>", thickness: 300 um, system: tracking}
+"""
+
+
+def test_script_in_spec_strings_is_inert(browser, tmp_path):
+    spec = tmp_path / "hostile.yaml"
+    spec.write_text(HOSTILE)
+    out = tmp_path / "site"
+    assert main(["build", str(spec), "--out", str(out), "--quiet"]) == 0
+    for page_path in sorted(out.glob("*.html")):
+        page = browser.new_page()
+        dialogs = []
+        page.on("dialog", lambda d: (dialogs.append(d.message), d.dismiss()))
+        page.goto(page_path.as_uri())
+        page.wait_for_load_state("load")
+        page.mouse.move(10, 10)
+        page.hover("body")
+        assert page.evaluate("typeof window.__pwned") == "undefined", page_path.name
+        assert page.evaluate("document.querySelectorAll('[onerror],[onload],[onclick],[onmouseover]').length") == 0
+        assert page.evaluate("Array.from(document.querySelectorAll('a')).filter(a => a.href.startsWith('javascript')).length") == 0
+        assert dialogs == []
+        page.close()

@@ -1,0 +1,42 @@
+"""Every number in key-numbers.json is finite or an explicit null, and nulls appear only where a reason exists."""
+import json
+import math
+
+from refgen.render import json_bytes
+from refgen.report import make_report
+
+# Keys that may be null, each with the reason shown on the pages.
+NULLABLE = {
+    "mip_carriers": "no mean energy per carrier (W) for this material",
+    "mip_signal_fC": "no mean energy per carrier (W) for this material",
+    "pair_energy_eV": "no mean energy per carrier (W) for this material",
+    "mip_most_probable_MeV": "thick layer: see mip_most_probable_note",
+    "mip_fwhm_MeV": "thick layer: see mip_most_probable_note",
+    "mip_most_probable_note": "only set when the peak is not given",
+    "temperature_K": "not a gas", "pressure_Pa": "not a gas",
+    "efficient_from_GeV_c": "the lighter species never reaches 3 photoelectrons below the heavier one's threshold",
+    "separated_up_to_GeV_c": "never separated at 3 sigma in the momentum range",
+    "sampling_fraction_mip": "no active slab", "stochastic_term_fraction_sqrt_GeV": "no active slab",
+}
+
+
+def walk(node, path=""):
+    if isinstance(node, dict):
+        for k, v in node.items():
+            yield from walk(v, f"{path}.{k}")
+    elif isinstance(node, list):
+        for i, v in enumerate(node):
+            yield from walk(v, f"{path}[{i}]")
+    else:
+        yield path, node
+
+
+def test_key_numbers_are_finite_or_null_with_a_reason(demo_spec):
+    kn = json.loads(json_bytes(make_report(demo_spec)["key_numbers"]))
+    for path, value in walk(kn):
+        if isinstance(value, float):
+            assert math.isfinite(value), path
+        if value is None:
+            leaf = path.rsplit(".", 1)[-1]
+            # reach momenta are null where the species cannot reach the layer by continuous slowing down
+            assert leaf in NULLABLE or path.startswith(".reach_momentum_GeV_c."), path
