@@ -21,11 +21,14 @@ LN10 = math.log(10.0)
 
 def sternheimer_delta(bg, cbar: float, x0: float, x1: float, a: float, k: float, delta0: float = 0.0):
     """delta(beta gamma) from Sternheimer's parameters (dimensionless)."""
-    x = np.log10(np.asarray(bg, dtype=float))
-    high = 2.0 * LN10 * x - cbar
-    mid = high + a * np.clip(x1 - x, 0.0, None) ** k
-    low = delta0 * 10.0 ** (2.0 * (x - x0))
-    return np.where(x >= x1, high, np.where(x >= x0, mid, low))
+    shape = np.shape(bg)
+    x = np.log10(np.asarray(bg, dtype=float).reshape(-1))
+    out = 2.0 * LN10 * x - cbar
+    mid = (x >= x0) & (x < x1)
+    out[mid] += a * (x1 - x[mid]) ** k
+    low = x < x0
+    out[low] = delta0 * 10.0 ** (2.0 * (x[low] - x0)) if delta0 else 0.0
+    return out.reshape(shape)
 
 
 def sternheimer_peierls_parameters(i_ev: float, plasma_ev: float, gas: bool) -> dict:

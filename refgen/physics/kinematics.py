@@ -37,13 +37,15 @@ def momentum_of_kinetic(t, mass):
     return np.sqrt(t * (t + 2.0 * mass))
 
 
-def w_max(bg, mass):
+def w_max(bg, mass, gamma=None):
     """Maximum energy transfer to a free electron in one collision, MeV.
 
     W_max = 2 m_e c^2 (beta gamma)^2 / (1 + 2 gamma m_e/M + (m_e/M)^2)
-    (Review of Particle Physics 2024, Eq. 34.4), with the full m_e/M terms.
+    (Review of Particle Physics 2024, Eq. 34.4), with the full m_e/M terms. ``gamma`` may be passed when the
+    caller has it already.
     """
     me = electron_mass()
     bg = np.asarray(bg, dtype=float)
     r = me / mass
-    return 2.0 * me * bg ** 2 / (1.0 + 2.0 * gamma_of(bg) * r + r ** 2)
+    g = gamma_of(bg) if gamma is None else gamma
+    return 2.0 * me * bg * bg / (1.0 + 2.0 * g * r + r * r)

@@ -10,7 +10,7 @@ from __future__ import annotations
 import math
 
 import numpy as np
-from scipy.special import digamma
+from scipy.special import digamma, zeta
 
 from .. import datafiles
 from .density_effect import sternheimer_delta
@@ -36,9 +36,15 @@ def shell_correction(bg, i_ev: float):
     Valid for eta >= 0.13; below that eta is held at 0.13 (the region is flagged as of limited validity).
     """
     eta = np.maximum(np.asarray(bg, dtype=float), SHELL_FORMULA_MIN_ETA)
-    e2, e4, e6 = eta ** -2, eta ** -4, eta ** -6
+    e2 = 1.0 / (eta * eta)
+    e4 = e2 * e2
+    e6 = e4 * e2
     return ((0.422377 * e2 + 0.0304043 * e4 - 0.00038106 * e6) * 1e-6 * i_ev ** 2
             + (3.858019 * e2 - 0.1667989 * e4 + 0.00157955 * e6) * 1e-9 * i_ev ** 3)
+
+
+_ZETA_ODD = tuple(float(zeta(2 * k + 3)) for k in range(10))  # zeta(3), zeta(5), ... for the Bloch series
+BLOCH_SERIES_MAX_Y = 0.3
 
 
 def bloch_correction(beta, z: int):
@@ -46,11 +52,20 @@ def bloch_correction(beta, z: int):
     y = z alpha / beta (psi the digamma function).
 
     F. Bloch, Ann. Phys. 16 (1933) 285; Review of Particle Physics 2024, Sec. 34.2.5. Matters for large z
-    and small beta; it is added to the Bethe bracket.
+    and small beta; it is added to the Bethe bracket. For y < 0.3 the equivalent power series
+    -y^2 sum_k (-1)^k zeta(2k+3) y^(2k) is used (10 terms; truncation below 1e-10 relative there).
     """
     alpha = datafiles.constant("fine_structure")
     y = z * alpha / np.asarray(beta, dtype=float)
-    return float(digamma(1.0)) - np.real(digamma(1.0 + 1j * y))
+    y2 = y * y
+    series = np.zeros_like(y2)
+    for k in reversed(range(len(_ZETA_ODD))):
+        series = _ZETA_ODD[k] - y2 * series
+    out = -y2 * series
+    big = y >= BLOCH_SERIES_MAX_Y
+    if np.any(big):
+        out = np.where(big, float(digamma(1.0)) - np.real(digamma(1.0 + 1j * np.where(big, y, 1.0))), out)
+    return out
 
 
 def bethe_stopping(p, mass: float, z: int, medium):
@@ -65,11 +80,13 @@ def bethe_stopping(p, mass: float, z: int, medium):
     """
     me = electron_mass()
     bg = np.asarray(p, dtype=float) / mass
-    beta = beta_of(bg)
-    b2 = beta ** 2
-    wmax = w_max(bg, mass)
+    bg2 = bg * bg
+    gamma = np.sqrt(1.0 + bg2)
+    beta = bg / gamma
+    b2 = beta * beta
+    wmax = w_max(bg, mass, gamma)
     i_mev = medium.i_ev * 1e-6
-    log_term = 0.5 * np.log(2.0 * me * bg ** 2 * wmax / i_mev ** 2)
+    log_term = 0.5 * np.log(2.0 * me * bg2 * wmax / i_mev ** 2)
     bracket = (log_term - b2 - 0.5 * density_correction(bg, medium)
                - shell_correction(bg, medium.i_ev) / medium.z_eff + bloch_correction(beta, z))
     return datafiles.constant("dedx_constant_K") * z ** 2 * medium.z_over_a / b2 * bracket
