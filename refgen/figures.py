@@ -9,16 +9,14 @@ import hashlib
 import io
 import math
 import multiprocessing
+import os
 import re
 import sys
 from concurrent.futures import ProcessPoolExecutor
+from importlib import metadata
 from pathlib import Path
 
-import matplotlib
-
-matplotlib.use("Agg")
-import matplotlib.pyplot as plt  # noqa: E402
-import numpy as np  # noqa: E402
+import numpy as np
 
 # Okabe & Ito (2008) colour-blind-safe palette, in our own order.
 PALETTE = ["#0072B2", "#D55E00", "#009E73", "#CC79A7", "#E69F00", "#56B4E9", "#000000", "#F0E442"]
@@ -29,6 +27,14 @@ STYLE = {
     "axes.spines.top": False, "axes.spines.right": False, "legend.frameon": False, "lines.linewidth": 1.6,
     "figure.dpi": 100,
 }
+
+
+def _plt():
+    """matplotlib's pyplot with the Agg backend, imported on first use (a rebuild from the cache needs none)."""
+    import matplotlib
+    matplotlib.use("Agg")
+    import matplotlib.pyplot as plt
+    return plt
 
 
 def species_tex(label: str) -> str:
@@ -53,6 +59,7 @@ def line_style(i: int) -> dict:
 
 def to_svg(fig) -> bytes:
     """Serialise a figure to SVG bytes without dates or random ids."""
+    plt = _plt()
     buf = io.BytesIO()
     fig.savefig(buf, format="svg", metadata={"Date": None, "Creator": None}, bbox_inches="tight")
     plt.close(fig)
@@ -64,6 +71,7 @@ def species_curves(series: list[dict], xlabel: str, ylabel: str, edge_label: str
 
     series: [{"label", "x", "y", "valid"}]; marks: [(x, y, text)] points to annotate (e.g. the minimum).
     """
+    plt = _plt()
     with plt.rc_context(STYLE):
         fig, ax = plt.subplots(figsize=(6.4, 4.0))
         for i, s in enumerate(series):
@@ -88,6 +96,7 @@ def species_curves(series: list[dict], xlabel: str, ylabel: str, edge_label: str
 
 def reach_figure(layers: list[str], series: list[dict]) -> bytes:
     """Momentum each species needs to reach each layer: one step line per species over the stack."""
+    plt = _plt()
     with plt.rc_context(STYLE):
         fig, ax = plt.subplots(figsize=(6.8, 4.2))
         idx = np.arange(len(layers))
@@ -105,6 +114,7 @@ def reach_figure(layers: list[str], series: list[dict]) -> bytes:
 
 def budget_figure(layers: list[str], cum_x0: list[float], cum_li: list[float]) -> bytes:
     """Cumulative material budget along the stack: x/X0 and x/lambda_I after each layer (log scale)."""
+    plt = _plt()
     with plt.rc_context(STYLE):
         fig, ax = plt.subplots(figsize=(6.8, 4.0))
         idx = np.arange(len(layers))
@@ -121,6 +131,7 @@ def budget_figure(layers: list[str], cum_x0: list[float], cum_li: list[float]) -
 
 def profile_figure(t, series: list[dict], depth_x0: float) -> bytes:
     """Longitudinal shower profiles (1/E dE/dt against depth in X0), with the calorimeter's depth marked."""
+    plt = _plt()
     with plt.rc_context(STYLE):
         fig, ax = plt.subplots(figsize=(6.4, 3.8))
         for i, s in enumerate(series):
@@ -142,6 +153,7 @@ PROCESS_LABELS = {"photoelectric": "photoelectric absorption", "coherent": "cohe
 
 def photon_figure(e, curves: dict, bands: list[dict]) -> bytes:
     """Mass attenuation by process against photon energy, with the dominance bands shaded and named."""
+    plt = _plt()
     with plt.rc_context(STYLE):
         fig, ax = plt.subplots(figsize=(6.6, 4.2))
         lo, hi = float(e[0]), float(e[-1])
@@ -169,6 +181,7 @@ def photon_figure(e, curves: dict, bands: list[dict]) -> bytes:
 
 def regime_figure(rows: list[dict], placed: list[dict]) -> bytes:
     """The photon-regime map: crossover lines in the (energy, Z) plane with the spec's materials placed."""
+    plt = _plt()
     with plt.rc_context(STYLE):
         fig, ax = plt.subplots(figsize=(6.6, 4.4))
         z = np.array([r["Z"] for r in rows], dtype=float)
@@ -201,6 +214,7 @@ def regime_figure(rows: list[dict], placed: list[dict]) -> bytes:
 
 def angle_figure(p_gev, series: list[dict], saturated_mrad: float) -> bytes:
     """Cherenkov angle against momentum per species, with the saturated angle marked."""
+    plt = _plt()
     with plt.rc_context(STYLE):
         fig, ax = plt.subplots(figsize=(6.4, 3.8))
         for i, s in enumerate(series):
@@ -218,6 +232,7 @@ def angle_figure(p_gev, series: list[dict], saturated_mrad: float) -> bytes:
 
 def windows_figure(windows: list[dict], labels: dict, p_range: tuple[float, float]) -> bytes:
     """Threshold-mode identification windows: one horizontal band per species pair on a log momentum axis."""
+    plt = _plt()
     with plt.rc_context(STYLE):
         height = max(1.8, 0.28 * len(windows) + 0.9)
         fig, ax = plt.subplots(figsize=(6.4, height))
@@ -260,7 +275,7 @@ def _digest(obj, h) -> None:
 @functools.cache
 def _code_version() -> bytes:
     """This module's source and matplotlib's version: a change to either invalidates every cached figure."""
-    return Path(__file__).read_bytes() + matplotlib.__version__.encode()
+    return Path(__file__).read_bytes() + metadata.version("matplotlib").encode()
 
 
 def job_key(job: tuple) -> str:
@@ -276,31 +291,44 @@ def draw(job: tuple) -> bytes:
     return globals()[name](*args)
 
 
-def draw_all(jobs: dict[str, tuple], workers: int = 1, cache_dir=None) -> dict[str, bytes]:
-    """Draw every figure, in a process pool when workers > 1, reusing cached SVGs with the same content hash."""
-    out: dict[str, bytes] = {}
-    todo: dict[str, tuple] = {}
-    cache = Path(cache_dir) if cache_dir else None
-    keys = {path: job_key(job) for path, job in jobs.items()}
-    for path, job in jobs.items():
-        hit = cache / f"{keys[path]}.svg" if cache else None
-        if hit is not None and hit.is_file():
-            out[path] = hit.read_bytes()
-        else:
-            todo[path] = job
-    if todo:
-        paths = sorted(todo)
-        if workers > 1 and len(paths) > 1:
+class Drawer:
+    """Draws figure jobs in a process pool while the caller renders pages; cached SVGs are reused by content
+    hash. ``collect()`` returns path -> SVG bytes."""
+
+    def __init__(self, jobs: dict[str, tuple], workers: int = 1, cache_dir=None):
+        self.cache = Path(cache_dir) if cache_dir else None
+        self.keys = {path: job_key(job) for path, job in jobs.items()}
+        self.done: dict[str, bytes] = {}
+        todo = {}
+        for path, job in jobs.items():
+            hit = self.cache / f"{self.keys[path]}.svg" if self.cache else None
+            if hit is not None and hit.is_file():
+                self.done[path] = hit.read_bytes()
+            else:
+                todo[path] = job
+        self.paths = sorted(todo)
+        self.pool = None
+        if workers > 1 and len(self.paths) > 1:
             ctx = multiprocessing.get_context("spawn" if sys.platform == "darwin" else "fork")
-            with ProcessPoolExecutor(max_workers=workers, mp_context=ctx) as pool:
-                drawn = list(pool.map(draw, [todo[p] for p in paths], chunksize=1))
+            self.pool = ProcessPoolExecutor(max_workers=workers, mp_context=ctx)
+            self.futures = [self.pool.submit(draw, todo[p]) for p in self.paths]
         else:
-            drawn = [draw(todo[p]) for p in paths]
-        for path, svg in zip(paths, drawn):
-            out[path] = svg
-            if cache is not None:
-                cache.mkdir(parents=True, exist_ok=True)
-                tmp = cache / f".{keys[path]}.tmp"
+            self.todo = todo
+
+    def collect(self) -> dict[str, bytes]:
+        try:
+            if self.pool is not None:
+                drawn = [f.result() for f in self.futures]
+            else:
+                drawn = [draw(self.todo[p]) for p in self.paths]
+        finally:
+            if self.pool is not None:
+                self.pool.shutdown(cancel_futures=True)
+        for path, svg in zip(self.paths, drawn):
+            self.done[path] = svg
+            if self.cache is not None:
+                self.cache.mkdir(parents=True, exist_ok=True)
+                tmp = self.cache / f".{self.keys[path]}.{os.getpid()}.tmp"
                 tmp.write_bytes(svg)
-                tmp.replace(cache / f"{keys[path]}.svg")
-    return out
+                tmp.replace(self.cache / f"{self.keys[path]}.svg")
+        return self.done

@@ -19,7 +19,7 @@ import markdown
 from markupsafe import Markup, escape
 
 from . import datafiles
-from .figures import draw_all
+from .figures import Drawer
 from .report import plain
 import nh3
 
@@ -185,8 +185,16 @@ def radiator_figures(report: dict) -> dict[str, tuple]:
 
 def render_site(report: dict, build_info: dict, single: bool = False, workers: int = 1,
                 cache_dir=None) -> dict[str, bytes]:
-    """Every file of the site, in memory: pages, key-numbers.json and static assets."""
+    """Every file of the site, in memory: pages, key-numbers.json and static assets. The figures are drawn in
+    a process pool while the pages are rendered."""
     from . import handbook
+    jobs = {"fig/reach.svg": reach_figure(report)}
+    for name in report["material_slugs"]:
+        jobs.update(material_figures(report, name))
+    jobs.update(calorimetry_figures(report))
+    jobs.update(photon_figures(report))
+    jobs.update(radiator_figures(report))
+    drawer = Drawer(jobs, workers=workers, cache_dir=cache_dir)
     env = environment()
     kn = report["key_numbers"]
     systems = handbook.systems(kn, report)
@@ -235,13 +243,7 @@ def render_site(report: dict, build_info: dict, single: bool = False, workers: i
         files[path] = csv_bytes(header, rows, f"{path.split('/')[-1]}: refgen {build_info['version']}, "
                                 f"spec {build_info['spec_hash']}; units in the column names; valid=False rows lie "
                                 "below the model's validity edge")
-    jobs = {"fig/reach.svg": reach_figure(report)}
-    for name in report["material_slugs"]:
-        jobs.update(material_figures(report, name))
-    jobs.update(calorimetry_figures(report))
-    jobs.update(photon_figures(report))
-    jobs.update(radiator_figures(report))
-    files.update(draw_all(jobs, workers=workers, cache_dir=cache_dir))
+    files.update(drawer.collect())
     files.update(static_assets())
     if single:
         files["handbook.html"] = single_file(files, [p[0] for p in pages], f"{kn['experiment']['name']} handbook "

@@ -37,13 +37,20 @@ def paths(node, prefix=()):
 
 
 def mutate(data, path, action, leaf):
+    """Apply one mutation at path; a path that no longer exists (after an earlier mutation) changes nothing."""
     data = yaml.safe_load(yaml.safe_dump(data))
     if not path:
         return leaf if action == "replace" else data
     parent = data
     for p in path[:-1]:
+        if not isinstance(parent, (dict, list)) or (isinstance(parent, dict) and p not in parent) \
+                or (isinstance(parent, list) and not (isinstance(p, int) and p < len(parent))):
+            return data
         parent = parent[p]
     key = path[-1]
+    if not isinstance(parent, (dict, list)) or (isinstance(parent, dict) and key not in parent) \
+            or (isinstance(parent, list) and not (isinstance(key, int) and key < len(parent))):
+        return data
     if action == "delete":
         del parent[key]
     elif action == "replace":
