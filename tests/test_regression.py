@@ -13,7 +13,7 @@ PINS = [
     ("materials.crystal.radiation_length_cm", 0.8924137697000476),
     ("materials.crystal.moliere_radius_cm", 1.975657310079277),
     ("materials.iron.nuclear_interaction_length_g_cm2", 132.43438914499367),
-    ("materials.iron.muon_critical_energy_GeV", 329.77908576729357),
+    ("materials.iron.muon_critical_energy_GeV", 329.7800999291138),
     ("materials.drift-gas.density_g_cm3", 0.0017113905631388612),
     ("materials.heavy-gas.density_g_cm3", 0.00989510885871246),
     ("materials.crystal.photon.compton_pair_crossover_MeV", 6.6087424982556895),
