@@ -94,6 +94,14 @@ def species_curves(series: list[dict], xlabel: str, ylabel: str, edge_label: str
         return to_svg(fig)
 
 
+def _layer_axis(ax, layers: list[str], xlabel: str) -> None:
+    """A categorical x axis of layer names in stack order, with a log y axis."""
+    ax.set_yscale("log")
+    ax.set_xticks(np.arange(len(layers)))
+    ax.set_xticklabels(layers, rotation=60, ha="right", fontsize=7)
+    ax.set_xlabel(xlabel)
+
+
 def reach_figure(layers: list[str], series: list[dict]) -> bytes:
     """Momentum each species needs to reach each layer: one step line per species over the stack."""
     plt = _plt()
@@ -103,11 +111,8 @@ def reach_figure(layers: list[str], series: list[dict]) -> bytes:
         for i, s in enumerate(series):
             y = np.array([np.nan if v is None or v <= 0 else v for v in s["y"]], dtype=float)
             ax.plot(idx, y, marker="os^vD<>p"[i % 8], markersize=3.5, label=species_tex(s["label"]), **line_style(i))
-        ax.set_yscale("log")
-        ax.set_xticks(idx)
-        ax.set_xticklabels(layers, rotation=60, ha="right", fontsize=7)
+        _layer_axis(ax, layers, "layer reached (front face)")
         ax.set_ylabel("momentum needed at the interaction point (GeV/c)")
-        ax.set_xlabel("layer reached (front face)")
         ax.legend(fontsize=7.5, loc="upper left", bbox_to_anchor=(1.01, 1.0))
         return to_svg(fig)
 
@@ -120,11 +125,8 @@ def budget_figure(layers: list[str], cum_x0: list[float], cum_li: list[float]) -
         idx = np.arange(len(layers))
         ax.step(idx, cum_x0, where="mid", label="Σ x/X$_0$", **line_style(0))
         ax.step(idx, cum_li, where="mid", label="Σ x/λ$_I$", **line_style(1))
-        ax.set_yscale("log")
-        ax.set_xticks(idx)
-        ax.set_xticklabels(layers, rotation=60, ha="right", fontsize=7)
+        _layer_axis(ax, layers, "after layer")
         ax.set_ylabel("cumulative thickness (radiation or interaction lengths)")
-        ax.set_xlabel("after layer")
         ax.legend(fontsize=8, loc="upper left")
         return to_svg(fig)
 
