@@ -102,6 +102,35 @@ def reach_momenta(spec, tables) -> dict:
     return out
 
 
+def crossing_momenta(spec, tables) -> dict:
+    """Momentum (GeV/c) each species needs to cross each layer on its own (CSDA; None if out of range)."""
+    out = {}
+    for sp in spec.species:
+        row = {}
+        for layer in spec.layers:
+            t = 0.0
+            for _ in range(layer.repeat):
+                for slab in reversed(layer.slabs):
+                    if np.isfinite(t):
+                        t = float(kinetic_to_cross(tables[(slab.material, sp.key)], t,
+                                                   slab.thickness * spec.materials[slab.material].density))
+            row[layer.name] = float(momentum_of_kinetic(t, sp.mass)) / 1e3 if np.isfinite(t) else None
+        out[sp.key] = row
+    return out
+
+
+def tracking_scattering_curves(spec, x0s) -> dict:
+    """Highland theta0 (mrad) against momentum for each species through all material up to the last tracking layer."""
+    last = max((i for i, l in enumerate(spec.layers) if l.system == "tracking"), default=-1)
+    total = sum(l.repeat * sum(s.thickness * spec.materials[s.material].density / x0s[s.material] for s in l.slabs)
+                for l in spec.layers[: last + 1])
+    p = spec.momentum.values()
+    out = {"momentum_GeV_c": p / 1e3, "x_over_X0": total}
+    for sp in spec.species:
+        out[f"theta0_mrad_{sp.key}"] = highland_theta0(p, sp.mass, sp.charge, total) * 1e3 if total > 0 else np.full_like(p, np.nan)
+    return out
+
+
 def layer_signals(spec, layer, media, x0s, min_ion) -> dict:
     """Thin-layer numbers for a minimum-ionising muon in one layer (the active slab of a cell)."""
     slab = next((s for s in layer.slabs if s.active), layer.slabs[0])

@@ -15,6 +15,7 @@ import io
 import re
 
 import jinja2
+import numpy as np
 import markdown
 from markupsafe import Markup, escape
 
@@ -189,6 +190,11 @@ def render_site(report: dict, build_info: dict, single: bool = False, workers: i
     a process pool while the pages are rendered."""
     from . import handbook
     jobs = {"fig/reach.svg": reach_figure(report)}
+    sc = report["tracking_scattering_curves"]
+    jobs["fig/tracking-scattering.svg"] = _job(
+        "species_curves", [{"label": report["species_labels"][sp], "x": sc["momentum_GeV_c"], "y": sc[f"theta0_mrad_{sp}"],
+                            "valid": np.ones_like(sc["momentum_GeV_c"], dtype=bool)} for sp in report["species_labels"]],
+        "momentum (GeV/c)", "θ₀ through the tracking volume (mrad)", "")
     for name in report["material_slugs"]:
         jobs.update(material_figures(report, name))
     jobs.update(calorimetry_figures(report))

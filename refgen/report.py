@@ -149,6 +149,7 @@ def make_report(spec: Spec, progress=None) -> dict:
         "layers": layers,
         "stack_length_cm": z,
         "reach_momentum_GeV_c": reach,
+        "cross_momentum_GeV_c": charged.crossing_momenta(spec, tables),
         "tracking_scattering": charged.cumulative_scattering(spec, x0s),
         "material_budget": budget,
         "radiators": radiator_numbers,
@@ -169,6 +170,10 @@ def make_report(spec: Spec, progress=None) -> dict:
         cols = list(c)
         csv_tables[f"data/cherenkov/{layer_slugs[name]}.csv"] = (cols, [list(map(float, r)) for r in zip(*(c[k] for k in cols))])
     names = [l["name"] for l in layers]
+    scattering = charged.tracking_scattering_curves(spec, x0s)
+    cols = list(scattering)
+    cols.remove("x_over_X0")
+    csv_tables["data/tracking-scattering.csv"] = (cols, [list(map(float, r)) for r in zip(*(scattering[c] for c in cols))])
     csv_tables["data/reach.csv"] = (["layer"] + [f"{sp}_GeV_c" for sp in reach],
                                     [[n] + [reach[sp][n] for sp in reach] for n in names])
     csv_tables["data/budget.csv"] = (["layer", "system", "x_over_X0", "cumulative_X0", "x_over_lambda_I",
@@ -206,8 +211,10 @@ def make_report(spec: Spec, progress=None) -> dict:
         "photon_curves": photon_curves,
         "regime_map": regime,
         "shower_profiles": shower_profiles,
+        "tracking_scattering_curves": scattering,
         "shower_energy_keys": [f"{e / 1e3:g}" for e in spec.shower_energies],
         "csv_descriptions": {"data/reach.csv": "momentum each species needs to reach each layer",
+                             "data/tracking-scattering.csv": "Highland theta0 against momentum through the tracking volume, per species",
                              "data/budget.csv": "material budget and hadron survival per layer",
                              "data/photon-regimes.csv": "photon-regime crossover energies for Z = 1-98",
                              **{f"data/showers-{k}.csv": f"longitudinal shower profiles in the {k}" for k in systems}},

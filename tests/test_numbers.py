@@ -39,4 +39,4 @@ def test_key_numbers_are_finite_or_null_with_a_reason(demo_spec):
         if value is None:
             leaf = path.rsplit(".", 1)[-1]
             # reach momenta are null where the species cannot reach the layer by continuous slowing down
-            assert leaf in NULLABLE or path.startswith(".reach_momentum_GeV_c."), path
+            assert leaf in NULLABLE or path.startswith((".reach_momentum_GeV_c.", ".cross_momentum_GeV_c.")), path
