@@ -70,12 +70,6 @@ def elements() -> tuple[dict, ...]:
 
 
 @functools.cache
-def element_by_symbol() -> MappingProxyType:
-    """Element records keyed by chemical symbol."""
-    return MappingProxyType({e["symbol"]: e for e in elements()})
-
-
-@functools.cache
 def particles() -> MappingProxyType:
     """Built-in particle species by key (particles.csv)."""
     out = {}

@@ -33,7 +33,6 @@ def radiator_numbers(spec, radiator, p_grid) -> tuple[dict, dict]:
     lo, hi = radiator.band_eV
     centre = 0.5 * (lo + hi)
     n_lo, n_hi, n_c = (float(n_of(np.array([x]))[0]) for x in (lo, hi, centre))
-    n_min, n_max = min(n_lo, n_hi), max(n_lo, n_hi)
     y1 = float(photons_per_cm(1.0, 1, radiator.band_eV, n_of)[0])
     thresholds, thresholds_band, curves = {}, {}, {"momentum_GeV_c": p_grid / 1e3}
     for sp in spec.species:
