@@ -393,7 +393,10 @@ def _material(ctx: _Context, name: str, value, path) -> Material | None:
         return None
     if base is None:
         return None
-    comps, molar, i_ev, i_src, rho_default, is_gas, description, source, caveats, de, w_default = base
+    comps, molar, i_ev, i_src, rho_default, is_gas = (base.components, base.molar_mass, base.i_ev, base.i_source,
+                                                      base.density, base.is_gas)
+    description, source, caveats, de, w_default = (base.description, base.source, base.caveats,
+                                                   base.density_effect, base.pair_energy_eV)
     temperature = pressure = None
     if is_gas:
         temperature = ctx.quantity(value["temperature"], path + ("temperature",), "temperature") \
@@ -446,9 +449,25 @@ def _material(ctx: _Context, name: str, value, path) -> Material | None:
                     pressure_Pa=pressure, scintillator=scint, index_density_ratio=index_ratio)
 
 
-def _material_base(ctx, name, value, kind, state, path):
-    """Composition, molar mass, I, default density, gas flag, description, source, caveats,
-    density-effect parameters (tagged with their density) and default W of one material definition."""
+@dataclass
+class _Base:
+    """What a material definition's library entry, formula or mixture supplies before the spec's overrides."""
+
+    components: tuple
+    molar_mass: float
+    i_ev: float
+    i_source: str
+    density: float | None  # None: from the ideal gas law, or required in the spec
+    is_gas: bool
+    description: str
+    source: str
+    caveats: tuple
+    density_effect: dict | None  # Sternheimer parameters tagged with the density they were made for
+    pair_energy_eV: float | None
+
+
+def _material_base(ctx, name, value, kind, state, path) -> _Base | None:
+    """The composition and defaults of one material definition (library, formula or mixture)."""
     if kind == "library":
         key = value["library"]
         lib = datafiles.library_materials()
@@ -464,8 +483,8 @@ def _material_base(ctx, name, value, kind, state, path):
         rho = m.density
         if is_gas and ("temperature" in value or "pressure" in value) and "density" not in value:
             rho = None  # recomputed from the ideal gas law at the given conditions
-        return (m.components, molar, m.mean_excitation_eV, m.i_source, rho, is_gas, m.description, m.source,
-                m.caveats, de, m.pair_energy_eV)
+        return _Base(m.components, molar, m.mean_excitation_eV, m.i_source, rho, is_gas, m.description, m.source,
+                     m.caveats, de, m.pair_energy_eV)
     if kind == "formula":
         formula = value["formula"]
         if not isinstance(formula, str):
@@ -481,7 +500,7 @@ def _material_base(ctx, name, value, kind, state, path):
             is_gas = is_gas or (state is None and el["state"] == "gas")
             rho = el["density"]
         i_ev = matlib.bragg_mean_excitation(fr, condensed=not is_gas)
-        return (matlib.components_from_fractions(fr), matlib.molar_mass(counts), i_ev,
+        return _Base(matlib.components_from_fractions(fr), matlib.molar_mass(counts), i_ev,
                 "Bragg additivity (ICRU 37)", rho, is_gas, f"{formula}", "spec", (), None, None)
     by = value.get("by", "mass")
     if by not in ("mass", "volume", "atom"):
@@ -519,7 +538,7 @@ def _material_base(ctx, name, value, kind, state, path):
     if not is_gas and all(parts[p][4] is not None for p in mass_w):
         rho = 1.0 / sum(w / parts[p][4] for p, w in mass_w.items())
     desc = ", ".join(f"{p} {f * 100:.4g}%" for p, f in fractions.items()) + f" by {by}"
-    return (matlib.components_from_fractions(elem), molar, i_ev, "Bragg additivity over the parts (ICRU 37)",
+    return _Base(matlib.components_from_fractions(elem), molar, i_ev, "Bragg additivity over the parts (ICRU 37)",
             rho, is_gas, desc, "spec", (), None, None)
 
 
