@@ -45,12 +45,9 @@ def material_lengths(material, medium, x0: float) -> dict:
 
 def layer_budget(spec, layer, materials: dict) -> dict:
     """x/X0 and x/lambda_I of one layer (all its slabs and repeats)."""
-    x_x0 = x_li = 0.0
-    for s in layer.slabs:
-        m = spec.materials[s.material]
-        x_x0 += s.thickness * m.density / materials[s.material]["radiation_length_g_cm2"]
-        x_li += s.thickness * m.density / materials[s.material]["nuclear_interaction_length_g_cm2"]
-    return {"x_over_X0": x_x0 * layer.repeat, "x_over_lambda_I": x_li * layer.repeat}
+    x0 = {name: m["radiation_length_g_cm2"] for name, m in materials.items()}
+    lam = {name: m["nuclear_interaction_length_g_cm2"] for name, m in materials.items()}
+    return {"x_over_X0": spec.layer_depth(layer, x0), "x_over_lambda_I": spec.layer_depth(layer, lam)}
 
 
 def effective_cell(spec, layer, materials: dict) -> dict:

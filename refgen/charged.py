@@ -84,46 +84,35 @@ def slab_sequence(layers):
                 yield i, slab
 
 
+def momentum_to_cross(spec, tables, species, slabs) -> float | None:
+    """Momentum (GeV/c) the species needs to cross the slabs (in order outward) and just leave the last one:
+    walk backwards, R(T_in) = R(T_out) + x rho in each slab (CSDA). None beyond the range tables."""
+    t = 0.0
+    for slab in reversed(slabs):
+        t = float(kinetic_to_cross(tables[(slab.material, species.key)], t,
+                                   slab.thickness * spec.materials[slab.material].density))
+        if not np.isfinite(t):
+            return None
+    return float(momentum_of_kinetic(t, species.mass)) / 1e3
+
+
 def reach_momenta(spec, tables) -> dict:
     """Momentum (GeV/c) each species needs to reach the front of each layer from the interaction point (CSDA)."""
     slabs = list(slab_sequence(spec.layers))
-    out = {}
-    for sp in spec.species:
-        row = {}
-        for target, layer in enumerate(spec.layers):
-            t = 0.0
-            for _, slab in reversed([s for s in slabs if s[0] < target]):
-                table = tables[(slab.material, sp.key)]
-                t = float(kinetic_to_cross(table, t, slab.thickness * spec.materials[slab.material].density))
-                if not np.isfinite(t):
-                    break
-            row[layer.name] = float(momentum_of_kinetic(t, sp.mass)) / 1e3 if np.isfinite(t) else None
-        out[sp.key] = row
-    return out
+    return {sp.key: {layer.name: momentum_to_cross(spec, tables, sp, [s for i, s in slabs if i < target])
+                     for target, layer in enumerate(spec.layers)} for sp in spec.species}
 
 
 def crossing_momenta(spec, tables) -> dict:
     """Momentum (GeV/c) each species needs to cross each layer on its own (CSDA; None if out of range)."""
-    out = {}
-    for sp in spec.species:
-        row = {}
-        for layer in spec.layers:
-            t = 0.0
-            for _ in range(layer.repeat):
-                for slab in reversed(layer.slabs):
-                    if np.isfinite(t):
-                        t = float(kinetic_to_cross(tables[(slab.material, sp.key)], t,
-                                                   slab.thickness * spec.materials[slab.material].density))
-            row[layer.name] = float(momentum_of_kinetic(t, sp.mass)) / 1e3 if np.isfinite(t) else None
-        out[sp.key] = row
-    return out
+    return {sp.key: {layer.name: momentum_to_cross(spec, tables, sp, [s for _, s in slab_sequence([layer])])
+                     for layer in spec.layers} for sp in spec.species}
 
 
 def tracking_scattering_curves(spec, x0s) -> dict:
     """Highland theta0 (mrad) against momentum for each species through all material up to the last tracking layer."""
     last = max((i for i, l in enumerate(spec.layers) if l.system == "tracking"), default=-1)
-    total = sum(l.repeat * sum(s.thickness * spec.materials[s.material].density / x0s[s.material] for s in l.slabs)
-                for l in spec.layers[: last + 1])
+    total = sum(spec.layer_depth(l, x0s) for l in spec.layers[: last + 1])
     p = spec.momentum.values()
     out = {"momentum_GeV_c": p / 1e3, "x_over_X0": total}
     for sp in spec.species:
@@ -147,8 +136,7 @@ def layer_signals(spec, layer, media, x0s, min_ion) -> dict:
     if thick:  # the loss is close to Gaussian about the mean: no Landau peak to quote
         mpv = fwhm = None
     carriers = mpv * 1e6 / w_ev if (w_ev and mpv is not None) else None
-    x_over_x0 = layer.thickness and sum(s.thickness * spec.materials[s.material].density / x0s[s.material]
-                                        for s in layer.slabs) * layer.repeat
+    x_over_x0 = spec.layer_depth(layer, x0s)
     theta0 = float(highland_theta0(1e3, MUON_MASS, 1, x_over_x0)) * 1e3
     return {
         "signal_slab_material": slab.material,
@@ -175,7 +163,7 @@ def cumulative_scattering(spec, x0s) -> list[dict]:
     """Highland theta0 of a 1 GeV/c muon after all material up to and including each tracking layer."""
     total, out = 0.0, []
     for layer in spec.layers:
-        total += layer.repeat * sum(s.thickness * spec.materials[s.material].density / x0s[s.material] for s in layer.slabs)
+        total += spec.layer_depth(layer, x0s)
         if layer.system == "tracking":
             out.append({"layer": layer.name, "x_over_X0": total,
                         "theta0_mrad_at_1_GeV_c": float(highland_theta0(1e3, MUON_MASS, 1, total)) * 1e3})

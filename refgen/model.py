@@ -210,3 +210,9 @@ class Spec:
 
     def material(self, name: str) -> Material:
         return self.materials[name]
+
+    def layer_depth(self, layer: Layer, lengths_g_cm2: dict[str, float]) -> float:
+        """Thickness of a layer in units of a per-material length (X0 or lambda_I, g/cm2):
+        repeat * sum over slabs of thickness * density / length."""
+        return layer.repeat * sum(s.thickness * self.materials[s.material].density / lengths_g_cm2[s.material]
+                                  for s in layer.slabs)

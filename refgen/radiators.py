@@ -3,15 +3,14 @@ and scintillator light (Birks). Plain data out; the physics is in refgen.physics
 from __future__ import annotations
 
 import itertools
-import math
 
 import numpy as np
 
 from .physics.cherenkov import (cherenkov_angle, photons_per_cm, refractive_index, saturated_angle,
                                 threshold_momentum)
-from .physics.kinematics import momentum_of_kinetic
+from .physics.kinematics import kinetic_energy, momentum_of_kinetic
 from .physics.scintillation import birks_light_stopping, birks_light_thin
-from .physics.stopping import bethe_stopping
+from .physics.stopping import BETHE_VALID_MIN_BG, bethe_stopping
 
 RING_SIGMAS = 3.0
 PROTON_QUENCH_ENERGIES_MEV = (2.0, 5.0, 10.0, 50.0, 100.0)
@@ -129,7 +128,7 @@ def scintillator_numbers(spec, layer, layer_kn: dict, medium_of_material) -> dic
     t = np.geomspace(1e-3, max(PROTON_QUENCH_ENERGIES_MEV), 2000)
     s_lin = np.maximum(bethe_stopping(momentum_of_kinetic(t, proton), proton, 1, medium), 0.0) * m.density
     # below the Bethe equation's validity (T < 1.2 MeV) hold dE/dx at its value there: of limited validity
-    edge = momentum_edge_kinetic(proton)
+    edge = float(kinetic_energy(BETHE_VALID_MIN_BG * proton, proton))
     s_lin = np.where(t < edge, np.interp(edge, t, s_lin), s_lin)
     lt = birks_light_stopping(sc["light_yield_per_MeV"], sc["birks_cm_per_MeV"], t, s_lin)
     quench = [{"kinetic_energy_MeV": e, "light_photons": float(np.interp(e, t, lt)),
@@ -140,9 +139,3 @@ def scintillator_numbers(spec, layer, layer_kn: dict, medium_of_material) -> dic
             "birks_is_default": sc["birks_is_default"], "mip_photons": light,
             "mip_quenching_factor": light / (sc["light_yield_per_MeV"] * layer_kn["mip_mean_MeV"]),
             "proton_quenching": quench}
-
-
-def momentum_edge_kinetic(mass: float) -> float:
-    """Kinetic energy (MeV) at beta gamma = 0.05, the Bethe equation's lower edge."""
-    bg = 0.05
-    return mass * (math.sqrt(1.0 + bg * bg) - 1.0)

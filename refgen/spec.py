@@ -8,6 +8,7 @@ The schema is declared in SCHEMA below, one documented entry per key, and the RE
 from __future__ import annotations
 
 import difflib
+import functools
 import hashlib
 import math
 import re
@@ -239,6 +240,7 @@ def _shower_energies(ctx: _Context, data) -> tuple[float, ...]:
     return tuple(sorted(set(e for e in out if e is not None)))
 
 
+@functools.cache
 def _library_index_by_formula() -> dict[tuple[str, str], str]:
     """(formula, state) -> library key, so that mixture parts like CO2 take the library's I value."""
     out = {}
