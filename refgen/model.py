@@ -6,7 +6,7 @@ in refgen.physics as pure functions; properties here only call them.
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass, field
+from dataclasses import dataclass
 
 import numpy as np
 
@@ -140,6 +140,7 @@ class Layer:
     slabs: tuple[Slab, ...]
     repeat: int = 1
     scintillator: dict | None = None
+    resolution_cm: float | None = None  # point resolution in the bending direction of a measuring layer, cm
 
     @property
     def is_sampling(self) -> bool:
@@ -170,6 +171,18 @@ class Radiator:
     efficiency_is_default: bool
     angle_resolution_mrad: float | None
     mode: str
+
+
+@dataclass(frozen=True)
+class FieldRegion:
+    """A uniform magnetic field perpendicular to the stack axis, from the front of ``from_layer`` (start_cm)
+    to the back of ``to_layer`` (end_cm); positions along the stack axis from the interaction point, cm."""
+
+    strength_tesla: float
+    start_cm: float
+    end_cm: float
+    from_layer: str
+    to_layer: str
 
 
 @dataclass(frozen=True)
@@ -206,10 +219,19 @@ class Spec:
     notes: tuple[str, ...] = ()
     spec_hash: str = ""
     source_name: str = ""
-    warnings: tuple[str, ...] = field(default_factory=tuple)
+    warnings: tuple[str, ...] = ()
+    field: tuple[FieldRegion, ...] = ()
 
     def material(self, name: str) -> Material:
         return self.materials[name]
+
+    def layer_starts(self) -> dict[str, float]:
+        """Position of each layer's front face along the stack axis, cm (the stack starts at the origin)."""
+        out, z = {}, 0.0
+        for layer in self.layers:
+            out[layer.name] = z
+            z += layer.thickness
+        return out
 
     def layer_depth(self, layer: Layer, lengths_g_cm2: dict[str, float]) -> float:
         """Thickness of a layer in units of a per-material length (X0 or lambda_I, g/cm2):

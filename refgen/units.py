@@ -22,11 +22,13 @@ INTERNAL_UNITS = {
     "kB": "cm/MeV",  # Birks' constant per unit dE/dx: cm/MeV (given as g/cm2/MeV divided by density upstream)
     "areal_density": "g/cm**2",
     "angle": "rad",
+    "magnetic_field": "T",
 }
 EXAMPLES = {
     "length": "150 um, 1.2 cm", "energy": "1 GeV, 3.6 eV", "momentum": "50 MeV/c, 2 GeV/c",
     "mass_energy": "1115.7 MeV", "density": "8.28 g/cm3", "temperature": "20 degC, 293 K",
     "pressure": "1 atm, 1013 mbar", "kB": "0.0126 cm/MeV", "areal_density": "10 g/cm2", "angle": "2 mrad",
+    "magnetic_field": "1.5 T, 500 mT",
 }
 
 _NUMBER_UNIT = re.compile(r"^\s*([-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?)\s*(.*?)\s*$")

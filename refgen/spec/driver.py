@@ -16,6 +16,7 @@ from ..model import Spec
 from ..yamlio import load_with_lines
 from .context import Context
 from .experiment import read_experiment, read_grid, read_particles, read_shower_energies
+from .field_section import read_field
 from .layer_section import read_layers
 from .material_section import read_materials
 from .radiator_section import read_radiators
@@ -29,6 +30,7 @@ TOP_LEVEL_KEYS = {
     "materials": "Materials by name: from the library, a formula, or a mixture (required).",
     "layers": "The layer stack, ordered outward from the interaction point (required).",
     "radiators": "Cherenkov radiators: which layer radiates and its photon band.",
+    "field": "Magnetic field perpendicular to the stack axis: {strength, from: <layer>, to: <layer>} or a list of such regions.",
 }
 
 
@@ -56,6 +58,7 @@ def validate(data, lines: dict, source: str = "spec", strict: bool = False, text
     layers = read_layers(ctx, data, mats, material_names)
     layer_names = _layer_names(data)
     radiators = read_radiators(ctx, data, layers, mats, layer_names)
+    field = read_field(ctx, data, layers, layer_names)
     problems = list(ctx.problems)
     if strict:
         problems += [Problem(w.path, w.line, w.message + " (a warning, fatal with --strict)") for w in ctx.warnings]
@@ -66,7 +69,7 @@ def validate(data, lines: dict, source: str = "spec", strict: bool = False, text
     return Spec(experiment=experiment, species=species, momentum=momentum, photon_energy=photon,
                 shower_energies=showers, materials=mats, layers=layers, radiators=radiators,
                 notes=tuple(ctx.notes), spec_hash=digest, source_name=source,
-                warnings=tuple(str(w) for w in ctx.warnings))
+                warnings=tuple(str(w) for w in ctx.warnings), field=field)
 
 
 def read_text(path) -> str:

@@ -24,14 +24,27 @@ LAYER_KEYS = {
     "active": "true if the layer is sensitive (default: true for tracking, cherenkov and muon layers).",
     "repeat": "Number of cells in a sampling structure.",
     "cell": "The slabs of one cell: [{material, thickness, active}, ...].",
+    "resolution": "Point resolution in the bending direction, with unit, e.g. 12 um: the layer measures the track (single-slab, active layers only).",
 }
 SLAB_KEYS = {"material": "Material name (required).", "thickness": "Thickness with unit (required).",
              "active": "true for a sensitive slab."}
+
+def _resolution(ctx: Context, value, path, layer: Layer, materials: dict) -> float | None:
+    """A measuring layer's point resolution (cm): a single active slab; sampling structures do not measure."""
+    if layer.is_sampling:
+        ctx.error(path, f"layer '{layer.name}' is a sampling structure; only a single-slab layer can measure")
+        return None
+    if not layer.slabs[0].active:
+        ctx.error(path, f"layer '{layer.name}' is not active; a measuring layer must be active")
+        return None
+    return ctx.quantity(value, path, "length")
+
 
 OptionChecker = Callable[[Context, object, tuple, Layer, dict[str, Material]], object]
 
 # spec key -> (model.Layer field, checker); applied in this order after the layer's geometry is valid.
 LAYER_OPTIONS: dict[str, tuple[str, OptionChecker]] = {
+    "resolution": ("resolution_cm", _resolution),
 }
 
 
