@@ -16,7 +16,7 @@ PINS = [
     ("materials.iron.muon_critical_energy_GeV", 329.7800999291138),
     ("materials.drift-gas.density_g_cm3", 0.0017113905631388612),
     ("materials.heavy-gas.density_g_cm3", 0.00989510885871246),
-    ("materials.crystal.photon.compton_pair_crossover_MeV", 6.6087424982556895),
+    ("materials.crystal.photon.compton_pair_crossover_MeV", 5.361896543897453),
     ("materials.silicon.photon.mass_attenuation_cm2_g.1", 0.06354225213967167),
     ("layers.pixel-1.mip_most_probable_MeV", 0.03728135447327446),
     ("layers.pixel-1.mip_carriers", 10298.716705324436),
