@@ -56,10 +56,9 @@ def material_photons(material, e) -> tuple[dict, dict]:
     return numbers, curves
 
 
-def layer_energy_coefficients(spec) -> dict:
-    """Each material's coefficients at LAYER_ENERGIES_MEV, computed once for the layer tables."""
-    e = np.array(LAYER_ENERGIES_MEV)
-    return {name: coefficients(m, e) for name, m in spec.materials.items()}
+def layer_energy_coefficients(material) -> dict:
+    """A material's coefficients at LAYER_ENERGIES_MEV, computed once for the layer tables."""
+    return coefficients(material, np.array(LAYER_ENERGIES_MEV))
 
 
 def _optical_depths(spec, layers, coeffs) -> tuple[np.ndarray, np.ndarray]:

@@ -12,6 +12,7 @@ import tempfile
 from pathlib import Path
 
 from . import __version__
+from .cache import cache_root
 from .errors import BuildError
 from .render import render_site
 from .report import make_report
@@ -25,12 +26,6 @@ def build_info(spec, build_date: str | None) -> dict:
     """Provenance shown on every page: refgen version, spec hash and revision, optional build date."""
     return {"version": __version__, "spec_hash": spec.spec_hash, "spec_source": Path(spec.source_name).name,
             "revision": spec.experiment.revision, "build_date": build_date}
-
-
-def figure_cache_dir() -> Path:
-    """Where drawn figures are kept by content hash: $REFGEN_CACHE, else ~/.cache/refgen/figures."""
-    root = os.environ.get("REFGEN_CACHE") or os.path.join(os.path.expanduser("~"), ".cache", "refgen")
-    return Path(root) / "figures"
 
 
 def check_output_folder(out: Path, force: bool) -> None:
@@ -78,12 +73,13 @@ def build(spec_path, out, *, force: bool = False, strict: bool = False, build_da
     spec = load_spec(spec_path, strict=strict)
     check_output_folder(Path(out).resolve(), force)
     old = load_baseline(baseline) if baseline else None
-    report = make_report(spec, progress=say)
+    workers = workers or min(2, os.cpu_count() or 1)
+    cache_dir = cache_root() if cache else None
+    report = make_report(spec, progress=say, cache_dir=cache_dir, workers=workers)
     report["changes"] = compare(old, report["key_numbers"]) if old is not None else None
     say("rendering the pages and figures")
     files = render_site(report, build_info(spec, build_date), single=single_file,
-                        workers=workers or min(2, os.cpu_count() or 1),
-                        cache_dir=figure_cache_dir() if cache else None)
+                        workers=workers, cache_dir=cache_dir / "figures" if cache else None)
     say(f"writing {len(files)} files")
     write_site(files, Path(out), force)
     return report

@@ -58,22 +58,15 @@ def muon_critical_energy_gev(material, medium) -> float:
     return muon_critical_energy(collision, *material.arrays()) / 1e3
 
 
-def curves(spec, media, x0s, tables) -> dict:
-    """Per (material, species): the dE/dx and range curves on the spec's momentum grid."""
-    p = spec.momentum.values()
-    out = {}
-    for name, medium in media.items():
-        for sp in spec.species:
-            s = mass_stopping_power(p, sp.mass, sp.charge, medium, x0s[name])
-            t = kinetic_energy(p, sp.mass)
-            table = tables[(name, sp.key)]
-            r = table.range_of(np.clip(t, table.t[0], None))
-            valid = p >= validity_edge_momentum(sp)
-            out[(name, sp.key)] = {"momentum_GeV_c": p / 1e3, "kinetic_energy_MeV": t, "beta_gamma": beta_gamma(p, sp.mass),
-                                   "dedx_MeV_cm2_g": s["total"], "collision_MeV_cm2_g": s["collision"],
-                                   "radiative_MeV_cm2_g": s["radiative"], "csda_range_g_cm2": np.where(valid, r, np.nan),
-                                   "valid": valid}
-    return out
+def species_curve(species, medium, x0, table, p) -> dict:
+    """dE/dx and CSDA range of one species in one material on the momentum grid ``p`` (MeV/c)."""
+    s = mass_stopping_power(p, species.mass, species.charge, medium, x0)
+    t = kinetic_energy(p, species.mass)
+    r = table.range_of(np.clip(t, table.t[0], None))
+    valid = p >= validity_edge_momentum(species)
+    return {"momentum_GeV_c": p / 1e3, "kinetic_energy_MeV": t, "beta_gamma": beta_gamma(p, species.mass),
+            "dedx_MeV_cm2_g": s["total"], "collision_MeV_cm2_g": s["collision"],
+            "radiative_MeV_cm2_g": s["radiative"], "csda_range_g_cm2": np.where(valid, r, np.nan), "valid": valid}
 
 
 def slab_sequence(layers):
@@ -84,29 +77,53 @@ def slab_sequence(layers):
                 yield i, slab
 
 
-def momentum_to_cross(spec, tables, species, slabs) -> float | None:
-    """Momentum (GeV/c) the species needs to cross the slabs (in order outward) and just leave the last one:
-    walk backwards, R(T_in) = R(T_out) + x rho in each slab (CSDA). None beyond the range tables."""
-    t = 0.0
-    for slab in reversed(slabs):
-        t = float(kinetic_to_cross(tables[(slab.material, species.key)], t,
-                                   slab.thickness * spec.materials[slab.material].density))
-        if not np.isfinite(t):
-            return None
-    return float(momentum_of_kinetic(t, species.mass)) / 1e3
+def _walk_back(tables, species, steps, t):
+    """Apply CSDA slab crossings backwards, vectorised over tracks: ``steps`` is a list of
+    (material, areal density g/cm2, index array) from the outermost slab inwards, and each step replaces
+    t[index] (the kinetic energy, MeV, leaving that slab) by the energy needed to enter it:
+    R(T_in) = R(T_out) + x rho. nan marks energies beyond the range tables."""
+    for material, areal, index in steps:
+        t_out = t[index]
+        t[index] = np.where(np.isnan(t_out), np.nan, kinetic_to_cross(tables[(material, species.key)], t_out, areal))
+    return t
+
+
+def _momenta_gev(t, species) -> list:
+    """Kinetic energies (MeV) to momenta (GeV/c); None where the walk left the range tables."""
+    p = momentum_of_kinetic(np.where(np.isfinite(t), t, 0.0), species.mass) / 1e3
+    return [float(v) if np.isfinite(e) else None for v, e in zip(p, t)]
 
 
 def reach_momenta(spec, tables) -> dict:
-    """Momentum (GeV/c) each species needs to reach the front of each layer from the interaction point (CSDA)."""
+    """Momentum (GeV/c) each species needs to reach the front of each layer from the interaction point (CSDA).
+
+    One backward pass over the slabs per species, vectorised over the layers: layer k needs every slab in
+    front of it, so going outward-in, a slab of layer i acts on the targets k > i."""
     slabs = list(slab_sequence(spec.layers))
-    return {sp.key: {layer.name: momentum_to_cross(spec, tables, sp, [s for i, s in slabs if i < target])
-                     for target, layer in enumerate(spec.layers)} for sp in spec.species}
+    n = len(spec.layers)
+    targets = np.arange(n)
+    steps = [(s.material, s.thickness * spec.materials[s.material].density, targets[i + 1:]) for i, s in reversed(slabs)]
+    return {sp.key: dict(zip((l.name for l in spec.layers), _momenta_gev(_walk_back(tables, sp, steps, np.zeros(n)), sp)))
+            for sp in spec.species}
 
 
 def crossing_momenta(spec, tables) -> dict:
-    """Momentum (GeV/c) each species needs to cross each layer on its own (CSDA; None if out of range)."""
-    return {sp.key: {layer.name: momentum_to_cross(spec, tables, sp, [s for _, s in slab_sequence([layer])])
-                     for layer in spec.layers} for sp in spec.species}
+    """Momentum (GeV/c) each species needs to cross each layer on its own (CSDA; None if out of range).
+
+    Vectorised over the layers: step m acts on the m-th slab from the back of every layer that has one,
+    grouped by material."""
+    own = [[(s.material, s.thickness * spec.materials[s.material].density) for _, s in slab_sequence([l])][::-1]
+           for l in spec.layers]
+    steps = []
+    for m in range(max((len(o) for o in own), default=0)):
+        groups: dict[tuple, list[int]] = {}
+        for k, o in enumerate(own):
+            if m < len(o):
+                groups.setdefault(o[m], []).append(k)
+        steps += [(mat, areal, np.array(idx)) for (mat, areal), idx in groups.items()]
+    n = len(spec.layers)
+    return {sp.key: dict(zip((l.name for l in spec.layers), _momenta_gev(_walk_back(tables, sp, steps, np.zeros(n)), sp)))
+            for sp in spec.species}
 
 
 def tracking_scattering_curves(spec, x0s) -> dict:
@@ -170,20 +187,13 @@ def cumulative_scattering(spec, x0s) -> list[dict]:
     return out
 
 
-def round_momentum_table(spec, media, x0s, tables) -> dict:
-    """Per material: dE/dx and CSDA range of each species at round momenta."""
-    out = {}
+def round_momentum_row(species, medium, x0, table) -> dict:
+    """dE/dx and CSDA range of one species in one material at the round momenta (None below validity)."""
     p = np.array(ROUND_MOMENTA)
-    for name, medium in media.items():
-        rows = []
-        for sp in spec.species:
-            s = mass_stopping_power(p, sp.mass, sp.charge, medium, x0s[name])["total"]
-            t = kinetic_energy(p, sp.mass)
-            table = tables[(name, sp.key)]
-            valid = p >= validity_edge_momentum(sp)
-            r = table.range_of(np.clip(t, table.t[0], None))
-            rows.append({"species": sp.key, "label": sp.label,
-                         "dedx": [float(v) if ok else None for v, ok in zip(s, valid)],
-                         "range": [float(v) if ok else None for v, ok in zip(r, valid)]})
-        out[name] = rows
-    return out
+    s = mass_stopping_power(p, species.mass, species.charge, medium, x0)["total"]
+    t = kinetic_energy(p, species.mass)
+    valid = p >= validity_edge_momentum(species)
+    r = table.range_of(np.clip(t, table.t[0], None))
+    return {"species": species.key, "label": species.label,
+            "dedx": [float(v) if ok else None for v, ok in zip(s, valid)],
+            "range": [float(v) if ok else None for v, ok in zip(r, valid)]}

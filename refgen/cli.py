@@ -29,7 +29,7 @@ def _parser() -> argparse.ArgumentParser:
     b.add_argument("--strict", action="store_true", help="treat spec warnings as errors")
     b.add_argument("--build-date", help="a date to print on the pages (none by default, for reproducible builds)")
     b.add_argument("--quiet", action="store_true", help="no progress output")
-    b.add_argument("--no-cache", action="store_true", help="redraw every figure (ignore the figure cache)")
+    b.add_argument("--no-cache", action="store_true", help="recompute every number and redraw every figure (ignore the cache)")
     b.add_argument("--single-file", action="store_true", help="also write DIR/handbook.html, one self-contained file")
     b.add_argument("--baseline", help="an earlier key-numbers.json: write a changes page listing every number that moved")
     b.add_argument("--fail-on-change", type=float, metavar="TOL",

@@ -5,18 +5,16 @@ Each function takes plain data and returns SVG bytes. Species are told apart by 
 from __future__ import annotations
 
 import functools
-import hashlib
 import io
 import math
-import multiprocessing
 import os
 import re
-import sys
-from concurrent.futures import ProcessPoolExecutor
 from importlib import metadata
 from pathlib import Path
 
 import numpy as np
+
+from .cache import content_key, process_pool
 
 # Okabe & Ito (2008) colour-blind-safe palette, in our own order.
 PALETTE = ["#0072B2", "#D55E00", "#009E73", "#CC79A7", "#E69F00", "#56B4E9", "#000000", "#F0E442"]
@@ -94,12 +92,24 @@ def species_curves(series: list[dict], xlabel: str, ylabel: str, edge_label: str
         return to_svg(fig)
 
 
+MAX_LAYER_LABELS = 40  # beyond this many layers the layer axis names every k-th layer only
+MAX_LAYER_MARKERS = 60  # beyond this many layers the per-layer curves are drawn without markers
+
+
+def layer_label_stride(n: int) -> int:
+    """Name every k-th layer on a layer axis so that at most MAX_LAYER_LABELS names are printed."""
+    return max(1, -(-n // MAX_LAYER_LABELS))
+
+
 def _layer_axis(ax, layers: list[str], xlabel: str) -> None:
-    """A categorical x axis of layer names in stack order, with a log y axis."""
+    """A categorical x axis of layer names in stack order, with a log y axis. Long stacks name every k-th
+    layer (and the last), and say so in the axis label."""
     ax.set_yscale("log")
-    ax.set_xticks(np.arange(len(layers)))
-    ax.set_xticklabels(layers, rotation=60, ha="right", fontsize=7)
-    ax.set_xlabel(xlabel)
+    k = layer_label_stride(len(layers))
+    ticks = sorted(set(range(0, len(layers), k)) | {len(layers) - 1}) if layers else []
+    ax.set_xticks(ticks)
+    ax.set_xticklabels([layers[i] for i in ticks], rotation=60, ha="right", fontsize=7)
+    ax.set_xlabel(xlabel if k == 1 else f"{xlabel}; every {k}th of {len(layers)} layers named")
 
 
 def reach_figure(layers: list[str], series: list[dict]) -> bytes:
@@ -110,7 +120,7 @@ def reach_figure(layers: list[str], series: list[dict]) -> bytes:
         idx = np.arange(len(layers))
         for i, s in enumerate(series):
             y = np.array([np.nan if v is None or v <= 0 else v for v in s["y"]], dtype=float)
-            ax.plot(idx, y, marker="os^vD<>p"[i % 8], markersize=3.5, label=species_tex(s["label"]), **line_style(i))
+            ax.plot(idx, y, marker="os^vD<>p"[i % 8], markersize=3.5 if len(layers) <= MAX_LAYER_MARKERS else 0, label=species_tex(s["label"]), **line_style(i))
         _layer_axis(ax, layers, "layer reached (front face)")
         ax.set_ylabel("momentum needed at the interaction point (GeV/c)")
         ax.legend(fontsize=7.5, loc="upper left", bbox_to_anchor=(1.01, 1.0))
@@ -257,23 +267,6 @@ def windows_figure(windows: list[dict], labels: dict, p_range: tuple[float, floa
 
 
 
-def _digest(obj, h) -> None:
-    """Feed a figure job's arguments into a hash: numbers, strings, arrays, lists and dicts."""
-    if isinstance(obj, np.ndarray):
-        h.update(b"A" + str(obj.dtype).encode() + str(obj.shape).encode() + np.ascontiguousarray(obj).tobytes())
-    elif isinstance(obj, dict):
-        h.update(b"D")
-        for k in sorted(obj, key=str):
-            _digest(str(k), h)
-            _digest(obj[k], h)
-    elif isinstance(obj, (list, tuple)):
-        h.update(b"L" + str(len(obj)).encode())
-        for v in obj:
-            _digest(v, h)
-    else:
-        h.update(b"S" + repr(obj).encode())
-
-
 @functools.cache
 def _code_version() -> bytes:
     """This module's source and matplotlib's version: a change to either invalidates every cached figure."""
@@ -282,9 +275,7 @@ def _code_version() -> bytes:
 
 def job_key(job: tuple) -> str:
     """Content hash of a figure job (function, arguments, drawing code)."""
-    h = hashlib.sha256(_code_version())
-    _digest(job, h)
-    return h.hexdigest()
+    return content_key(_code_version(), job)
 
 
 def draw(job: tuple) -> bytes:
@@ -311,8 +302,7 @@ class Drawer:
         self.paths = sorted(todo)
         self.pool = None
         if workers > 1 and len(self.paths) > 1:
-            ctx = multiprocessing.get_context("spawn" if sys.platform == "darwin" else "fork")
-            self.pool = ProcessPoolExecutor(max_workers=workers, mp_context=ctx)
+            self.pool = process_pool(workers)
             self.futures = [self.pool.submit(draw, todo[p]) for p in self.paths]
         else:
             self.todo = todo

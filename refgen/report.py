@@ -5,9 +5,12 @@ contexts and the CSV tables. Templates only format what is here.
 """
 from __future__ import annotations
 
+from pathlib import Path
+
 import numpy as np
 
 from . import __version__, attenuation, calorimetry, charged, radiators
+from .cache import cached_map
 from .model import SYSTEM_KINDS, Spec
 from .physics.medium import medium_of
 from .physics.radlen import radiation_length
@@ -85,34 +88,57 @@ def dedx_csv_rows(curve: dict) -> tuple[list[str], list[list]]:
     return cols, rows
 
 
-def make_report(spec: Spec, progress=None) -> dict:
-    """All numbers for one spec as plain data. ``progress`` is told the name of each section as it starts."""
+def material_physics(m, photon_energies) -> dict:
+    """Everything about one material on its own: the medium (density-effect and shell data), X0, minimum
+    ionisation, the material's key numbers and its photon curves. A pure function of its inputs, so it is
+    computed in the process pool and cached by content (refgen.cache)."""
+    medium = medium_of(m)
+    x0 = radiation_length(*m.arrays())
+    numbers = material_numbers(m)
+    numbers["density_effect_source"] = medium.de_source
+    numbers["z_eff"] = medium.z_eff
+    numbers["radiation_length_g_cm2"] = x0
+    numbers["radiation_length_cm"] = x0 / m.density
+    bg, dedx = min_ion = charged.minimum_ionization(medium)
+    numbers["min_ionization"] = {"dedx_MeV_cm2_g": dedx, "beta_gamma": bg, "dedx_MeV_cm": dedx * m.density,
+                                 "species": "muon"}
+    numbers["muon_critical_energy_GeV"] = charged.muon_critical_energy_gev(m, medium)
+    numbers.update(calorimetry.material_lengths(m, medium, x0))
+    numbers["photon"], photon_curves = attenuation.material_photons(m, photon_energies)
+    return {"medium": medium, "x0": x0, "min_ion": min_ion, "numbers": numbers, "photon_curves": photon_curves,
+            "layer_coeffs": attenuation.layer_energy_coefficients(m)}
+
+
+def species_physics(sp, medium, x0: float, p, p_max: float) -> dict:
+    """One species in one material: its CSDA range table, its curves on the momentum grid ``p`` and its row of
+    the round-momentum table. Pure and cached like ``material_physics``."""
+    table = charged.make_range_table(sp, medium, x0, p_max)
+    return {"table": table, "curve": charged.species_curve(sp, medium, x0, table, p),
+            "round_row": charged.round_momentum_row(sp, medium, x0, table)}
+
+
+def make_report(spec: Spec, progress=None, cache_dir=None, workers: int = 1) -> dict:
+    """All numbers for one spec as plain data. ``progress`` is told the name of each section as it starts.
+    The per-material and per-(material, species) physics is computed in a pool of ``workers`` processes and
+    kept in ``cache_dir`` by content, so a spec change recomputes only the materials and species it touches."""
     say = progress or (lambda msg: None)
     say("computing: materials and energy loss")
-    media = {name: medium_of(m) for name, m in spec.materials.items()}
-    x0s = {name: radiation_length(*m.arrays()) for name, m in spec.materials.items()}
-    min_ion = {name: charged.minimum_ionization(md) for name, md in media.items()}
-    p_max = spec.momentum.stop
-    tables = {(name, sp.key): charged.make_range_table(sp, md, x0s[name], p_max)
-              for name, md in media.items() for sp in spec.species}
-    curves = charged.curves(spec, media, x0s, tables)
-
-    materials, photon_curves = {}, {}
-    for name, m in spec.materials.items():
-        numbers = material_numbers(m)
-        numbers["density_effect_source"] = media[name].de_source
-        numbers["z_eff"] = media[name].z_eff
-        numbers["radiation_length_g_cm2"] = x0s[name]
-        numbers["radiation_length_cm"] = x0s[name] / m.density
-        bg, dedx = min_ion[name]
-        numbers["min_ionization"] = {"dedx_MeV_cm2_g": dedx, "beta_gamma": bg, "dedx_MeV_cm": dedx * m.density,
-                                     "species": "muon"}
-        numbers["muon_critical_energy_GeV"] = charged.muon_critical_energy_gev(m, media[name])
-        numbers.update(calorimetry.material_lengths(m, media[name], x0s[name]))
-        numbers["photon"], photon_curves[name] = attenuation.material_photons(m, spec.photon_energy.values())
-        materials[name] = numbers
+    physics_dir = Path(cache_dir) / "physics" if cache_dir is not None else None
+    per_material = cached_map(material_physics, {name: (m, spec.photon_energy.values())
+                                                 for name, m in spec.materials.items()}, physics_dir, workers)
+    media = {name: r["medium"] for name, r in per_material.items()}
+    x0s = {name: r["x0"] for name, r in per_material.items()}
+    min_ion = {name: r["min_ion"] for name, r in per_material.items()}
+    p = spec.momentum.values()
+    per_pair = cached_map(species_physics, {(name, sp.key): (sp, media[name], x0s[name], p, spec.momentum.stop)
+                                            for name in spec.materials for sp in spec.species}, physics_dir, workers)
+    tables = {key: r["table"] for key, r in per_pair.items()}
+    curves = {key: r["curve"] for key, r in per_pair.items()}
+    materials = {name: r["numbers"] for name, r in per_material.items()}
+    photon_curves = {name: r["photon_curves"] for name, r in per_material.items()}
+    round_table = {name: [per_pair[(name, sp.key)]["round_row"] for sp in spec.species] for name in spec.materials}
     say("computing: photons")
-    layer_coeffs = attenuation.layer_energy_coefficients(spec)
+    layer_coeffs = {name: r["layer_coeffs"] for name, r in per_material.items()}
     layers, z = [], 0.0
     for layer in spec.layers:
         entry = layer_numbers(spec, layer, z)
@@ -202,7 +228,7 @@ def make_report(spec: Spec, progress=None) -> dict:
         "curves": curves,
         "csv_tables": csv_tables,
         "round_momenta_GeV_c": [p / 1e3 for p in charged.ROUND_MOMENTA],
-        "round_table": charged.round_momentum_table(spec, media, x0s, tables),
+        "round_table": round_table,
         "validity_edges_GeV_c": {sp.key: charged.validity_edge_momentum(sp) / 1e3 for sp in spec.species},
         "species_labels": {sp.key: sp.label for sp in spec.species},
         "photon_energies_MeV": spec.photon_energy.values(),
