@@ -11,7 +11,7 @@ from .physics.muon import muon_critical_energy
 from .physics.kinematics import beta_gamma, electron_mass, kinetic_energy, momentum_of_kinetic
 from .physics.ranges import kinetic_to_cross, range_table
 from .physics.scattering import highland_theta0, highland_valid
-from .physics.stopping import BETHE_VALID_MIN_BG, bethe_stopping, mass_stopping_power
+from .physics.stopping import BETHE_VALID_MIN_BG, bethe_stopping, mass_stopping_power, muon_collision_stopping
 from .physics.straggling import landau_fwhm, most_probable_loss, restricted_stopping, vavilov_kappa
 
 ELECTRON_T_LOW = 0.01  # MeV: lower end of the Rohrlich-Carlson form's validity (ICRU 37)
@@ -54,7 +54,7 @@ def minimum_ionization(medium, mass: float = MUON_MASS) -> tuple[float, float]:
 def muon_critical_energy_gev(material, medium) -> float:
     """Muon critical energy of a material, GeV (collision loss of a mu- equal to its radiative loss)."""
     def collision(e):
-        return bethe_stopping(np.sqrt(e * e - MUON_MASS ** 2), MUON_MASS, -1, medium)
+        return muon_collision_stopping(np.sqrt(e * e - MUON_MASS ** 2), -1, medium)
     return muon_critical_energy(collision, *material.arrays()) / 1e3
 
 

@@ -109,6 +109,24 @@ def density_effect_parameters() -> MappingProxyType:
 
 
 @functools.cache
+def atomic_shells() -> tuple:
+    """Subshells of the elements Z = 1-92 (atomic_shells.csv), indexed so that atomic_shells()[Z - 1] is
+    {"electrons": tuple, "binding_eV": tuple, "conductor": bool, "conduction_electrons": int} of element Z."""
+    out: list[dict] = [{"electrons": [], "binding_eV": [], "conductor": False, "conduction_electrons": 0}
+                       for _ in range(92)]
+    for n, row in _read_rows("atomic_shells.csv"):
+        z = int(_number("atomic_shells.csv", n, row, "Z"))
+        if not 1 <= z <= 92:
+            raise DataFileError(f"atomic_shells.csv, line {n}: Z={z} out of range")
+        entry = out[z - 1]
+        entry["electrons"].append(_number("atomic_shells.csv", n, row, "electrons"))
+        entry["binding_eV"].append(_number("atomic_shells.csv", n, row, "binding_eV"))
+        entry["conductor"] = row["conductor"] == "1"
+        entry["conduction_electrons"] = int(_number("atomic_shells.csv", n, row, "conduction_electrons"))
+    return tuple(MappingProxyType({k: tuple(v) if isinstance(v, list) else v for k, v in e.items()}) for e in out)
+
+
+@functools.cache
 def methods() -> tuple:
     """The methods table shown on the methods-and-validity page (methods.csv)."""
     return tuple(MappingProxyType(row) for _, row in _read_rows("methods.csv"))

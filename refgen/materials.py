@@ -20,6 +20,7 @@ BOUND_SCALE = 1.13
 GAS_CONSTANT = 8.314462618  # J/(mol K), CODATA 2018 (exact: N_A k)
 REFERENCE_TEMPERATURE_K = 293.15  # library gas densities are at 20 degC and 1 atm
 REFERENCE_PRESSURE_PA = 101325.0
+GAS_DENSITY_LIMIT = 0.01  # g/cm3: below this a material is a gas (common practice: gases at 1 atm lie below 0.01)
 
 
 class FormulaError(RefgenError):
@@ -91,6 +92,14 @@ def combine_mean_excitation(parts: list[tuple[float, float, float]]) -> float:
     num = sum(w * za * math.log(i) for w, za, i in parts)
     den = sum(w * za for w, za, _ in parts)
     return math.exp(num / den)
+
+
+def state_from_density(density: float, usually_gas: bool) -> str:
+    """The state a density implies: 'gas' below GAS_DENSITY_LIMIT; above it 'liquid' for a composition that is
+    usually a gas (a liquefied gas such as liquid argon), else 'solid'."""
+    if density < GAS_DENSITY_LIMIT:
+        return "gas"
+    return "liquid" if usually_gas else "solid"
 
 
 def ideal_gas_density(molar_mass_g: float, temperature_K: float, pressure_Pa: float) -> float:

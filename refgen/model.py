@@ -56,7 +56,8 @@ class Material:
     """A material: composition as element mass fractions, density and the derived constants.
 
     density : g/cm3; mean_excitation_eV : eV; pair_energy_eV: mean energy per ionisation carrier, eV (or None).
-    ``density_effect``: Sternheimer-Berger-Seltzer parameters when tabulated, else None (general rules used).
+    ``density_effect``: Sternheimer-Berger-Seltzer parameters when tabulated, else None (the medium then matches
+    a table entry by composition, density and I, or uses the oscillator method).
     """
 
     name: str

@@ -11,9 +11,9 @@ from refgen.report import make_report
 PINS = [
     ("materials.silicon.min_ionization.dedx_MeV_cm2_g", 1.6632462773595593),
     ("materials.crystal.radiation_length_cm", 0.8924137697000476),
-    ("materials.crystal.moliere_radius_cm", 1.975657310079277),
+    ("materials.crystal.moliere_radius_cm", 2.024475044979456),
     ("materials.iron.nuclear_interaction_length_g_cm2", 132.43438914499367),
-    ("materials.iron.muon_critical_energy_GeV", 329.7800999291138),
+    ("materials.iron.muon_critical_energy_GeV", 344.14761239284985),
     ("materials.drift-gas.density_g_cm3", 0.0017113905631388612),
     ("materials.heavy-gas.density_g_cm3", 0.00989510885871246),
     ("materials.crystal.photon.compton_pair_crossover_MeV", 5.361896543897453),
@@ -23,14 +23,14 @@ PINS = [
     ("layers.drift-chamber.theta0_mrad_at_1_GeV_c", 0.7274246514086958),
     ("layers.crystal-calorimeter.x_over_X0", 24.652241759329307),
     ("layers.hadron-calorimeter.x_over_lambda_I", 6.202047379848683),
-    ("layers.hadron-calorimeter.scintillator.mip_photons", 9919.024039281445),
-    ("reach_momentum_GeV_c.muon.muon-chamber-2", 2.7215554373276527),
+    ("layers.hadron-calorimeter.scintillator.mip_photons", 9839.538453807296),
+    ("reach_momentum_GeV_c.muon.muon-chamber-2", 2.721291015898538),
     ("reach_momentum_GeV_c.proton.crystal-calorimeter", 0.36094953371418814),
     ("tracking_volume.photon_conversion_probability_at_1_GeV", 0.01751940457374853),
     ("radiators.threshold-aerogel.threshold_momentum_GeV_c.kaon", 2.000480157177543),
     ("radiators.heavy-gas-radiator.photoelectrons_at_beta_1", 54.604849030825655),
-    ("calorimeters.em-calorimeter.shower.10.containment_fraction", 0.9976038974771918),
-    ("calorimeters.hadron-calorimeter.sampling_fraction_mip", 0.034409484878548814),
+    ("calorimeters.em-calorimeter.shower.10.containment_fraction", 0.9975659617842522),
+    ("calorimeters.hadron-calorimeter.sampling_fraction_mip", 0.034136387349206904),
 ]
 
 

@@ -12,7 +12,7 @@ from __future__ import annotations
 import numpy as np
 
 from .. import datafiles
-from .density_effect import sternheimer_delta
+from .density_effect import density_correction
 from .kinematics import beta_of, electron_mass, w_max
 
 LANDAU_J = 0.200
@@ -32,7 +32,7 @@ def most_probable_loss(bg, z: int, medium, areal_density: float):
     xi = landau_xi(bg, z, medium, areal_density)
     i_mev = medium.i_ev * 1e-6
     return xi * (np.log(2.0 * me * bg ** 2 / i_mev) + np.log(xi / i_mev) + LANDAU_J - b2
-                 - sternheimer_delta(bg, **medium.de))
+                 - density_correction(bg, medium))
 
 
 def landau_fwhm(bg, z: int, medium, areal_density: float):
@@ -56,5 +56,5 @@ def restricted_stopping(bg, mass: float, z: int, medium, t_cut: float):
     t_up = np.minimum(t_cut, wmax)
     i_mev = medium.i_ev * 1e-6
     bracket = (0.5 * np.log(2.0 * me * bg ** 2 * t_up / i_mev ** 2) - 0.5 * b2 * (1.0 + t_up / wmax)
-               - 0.5 * sternheimer_delta(bg, **medium.de))
+               - 0.5 * density_correction(bg, medium))
     return datafiles.constant("dedx_constant_K") * z ** 2 * medium.z_over_a / b2 * bracket

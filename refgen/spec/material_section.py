@@ -20,7 +20,7 @@ MATERIAL_KEYS = {
     "mixture": "Parts and their fractions, e.g. {Ar: 70, CO2: 30}; parts are elements, formulas or library keys.",
     "by": "How mixture fractions are meant: mass, volume or atom (default mass).",
     "density": "Density with unit; for a gas computed from temperature and pressure when omitted.",
-    "state": "solid, liquid or gas (default: from the library or the parts, else solid).",
+    "state": "solid, liquid or gas (default: from the density when one is given, a gas below 0.01 g/cm3; else from the library or the parts).",
     "temperature": "Gas temperature with unit (default 20 degC).",
     "pressure": "Gas pressure with unit (default 1 atm).",
     "mean_excitation_energy": "Mean excitation energy I with unit; Bragg additivity when omitted.",
@@ -187,6 +187,8 @@ def _material(ctx: Context, name: str, value, path) -> Material | None:
         return None
     if base is None:
         return None
+    if density is not None:
+        state, base = _state_from_density(ctx, name, value, kind, state, density, base, path)
     comps, molar, i_ev, i_src, rho_default, is_gas = (base.components, base.molar_mass, base.i_ev, base.i_source,
                                                       base.density, base.is_gas)
     description, source, caveats, de, w_default = (base.description, base.source, base.caveats,
@@ -241,6 +243,25 @@ def _material(ctx: Context, name: str, value, path) -> Material | None:
                     i_source=i_src, pair_energy_eV=pair if pair is not None else w_default, refractive_index=index,
                     density_effect=de, source=source, caveats=caveats, temperature_K=temperature,
                     pressure_Pa=pressure, scintillator=scint, index_density_ratio=index_ratio)
+
+
+def _state_from_density(ctx: Context, name, value, kind, state, density, base, path):
+    """The state a stated density implies (below matlib.GAS_DENSITY_LIMIT a gas), unless ``state:`` or gas
+    conditions are given; a contradiction with the composition's usual state is a note. Returns (state, base),
+    the base rebuilt in the implied state when that differs from the usual one."""
+    if state is not None or {"temperature", "pressure"} & set(value):
+        if state is not None and (state == "gas") != (density < matlib.GAS_DENSITY_LIMIT):
+            ctx.notes.append(f"material '{name}': state '{state}' is given, but its density {density:.4g} g/cm3 "
+                             f"suggests {'a gas' if density < matlib.GAS_DENSITY_LIMIT else 'a condensed material'}; "
+                             f"the given state is used")
+        return state, base
+    implied = matlib.state_from_density(density, base.is_gas)
+    if (implied == "gas") != base.is_gas:
+        ctx.notes.append(f"material '{name}': treated as {'a gas' if implied == 'gas' else implied} from its density "
+                         f"{density:.4g} g/cm3 (its elements alone suggest {'a gas' if base.is_gas else 'a condensed material'}); "
+                         f"give 'state:' to override")
+        base = _material_base(Context(ctx.lines, [], [], []), name, value, kind, implied, path) or base
+    return implied, base
 
 
 @dataclass
