@@ -10,7 +10,7 @@ import numpy as np
 
 from . import datafiles
 from .model import CALORIMETER_KINDS
-from .physics.nuclear import nuclear_length
+from .physics.nuclear import interpolated_elements, nuclear_length
 from .physics.showers import (containment_depth, contained_fraction, critical_energy_crossing,
                               critical_energy_fit, critical_energy_rossi, moliere_radius, profile, shower_max)
 
@@ -39,8 +39,18 @@ def material_lengths(material, medium, x0: float) -> dict:
         "nuclear_interaction_length_cm": lam_i / material.density,
         "nuclear_collision_length_g_cm2": lam_t,
         "nuclear_collision_length_cm": lam_t / material.density,
-        "nuclear_lengths_note": "high-energy approximation (A-power law normalised to iron)",
+        **nuclear_length_provenance(z),
     }
+
+
+def nuclear_length_provenance(z) -> dict:
+    """Which elements' nuclear lengths are interpolated rather than tabulated, and the note shown beside them."""
+    symbols = [datafiles.elements()[zj - 1]["symbol"] for zj in interpolated_elements(z)]
+    note = ("high-energy hadrons; per-element values of the Review of Particle Physics combined by "
+            "1/lambda = sum w_j/lambda_j")
+    if symbols:
+        note += f"; interpolated in A for {', '.join(symbols)} (not tabulated)"
+    return {"nuclear_lengths_interpolated_elements": symbols, "nuclear_lengths_note": note}
 
 
 def layer_budget(spec, layer, materials: dict) -> dict:

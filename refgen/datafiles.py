@@ -141,3 +141,16 @@ def photon_regimes() -> tuple:
                                      "photoelectric_compton_MeV": _number("photon_regimes.csv", n, row, "photoelectric_compton_MeV"),
                                      "compton_pair_MeV": _number("photon_regimes.csv", n, row, "compton_pair_MeV")}))
     return tuple(out)
+
+
+@functools.cache
+def nuclear_lengths() -> MappingProxyType:
+    """Tabulated per-element nuclear collision and interaction lengths (g/cm2) by Z (nuclear_lengths.csv)."""
+    out = {}
+    for n, row in _read_rows("nuclear_lengths.csv"):
+        z = int(_number("nuclear_lengths.csv", n, row, "Z"))
+        out[z] = MappingProxyType({"Z": z, "symbol": row["symbol"], "A": _number("nuclear_lengths.csv", n, row, "A"),
+                                   **{k: _number("nuclear_lengths.csv", n, row, k)
+                                      for k in ("collision_length_g_cm2", "interaction_length_g_cm2")},
+                                   "source": row["source"]})
+    return MappingProxyType(out)

@@ -1,34 +1,54 @@
-"""Nuclear collision and interaction lengths, lambda_T and lambda_I (g/cm2): high-energy approximations.
+"""Nuclear collision and interaction lengths, lambda_T and lambda_I (g/cm2), for any element, compound or mixture.
 
-Power laws in the mass number for the hadron-nucleus cross sections at high energy (>~ 100 GeV):
-    sigma_I = sigma_I0 A^0.71   (absorption; exponent after Denisov et al., Nucl. Phys. B61 (1973) 62, from memory)
-    sigma_T = sigma_T0 A^0.77   (total; exponent after Murthy et al., Nucl. Phys. B92 (1975) 269, from memory)
-    lambda = A / (N_A sigma)
-The normalisations sigma_I0 = 40.26 mb and sigma_T0 = 51.48 mb make iron (A = 55.845) give the Review of
-Particle Physics values lambda_I = 132.1 and lambda_T = 81.7 g/cm2. Hydrogen, where no nucleus-size law
-applies, takes the Review's values (52.0 and 42.8 g/cm2). Compounds: 1/lambda = sum_j w_j / lambda_j.
-Accuracy: a few percent for A >= 9 (see the tests); these are approximations for energetic hadrons only.
+Per element, lambda = A / (N_A sigma) with sigma the total (collision) or inelastic (interaction) cross section of
+high-energy hadrons, as tabulated in the Review of Particle Physics (2024), atomic and nuclear properties
+(refgen/data/nuclear_lengths.csv, from memory). The tabulated values are not a smooth function of A (local
+exponents of sigma ~ A^alpha run from about 0.72 for C-Fe to 0.67 for Pb-U, and oxygen sits about 2 % above the
+carbon trend), so no single power law is used: an element that is not tabulated is interpolated linearly in
+(ln A, ln lambda) between its tabulated neighbours in A, i.e. with the local power law of that A range (beyond
+uranium the Pb-U law is continued), and is reported as interpolated.
+Compounds and mixtures: 1/lambda = sum_j w_j / lambda_j (w_j mass fractions).
+Validity: energetic hadrons (tens of GeV and above), where the cross sections are nearly constant; the lengths
+are the usual calorimetry scales, not an absorption law for a particular hadron at low energy.
 """
 from __future__ import annotations
 
+import numpy as np
+
 from .. import datafiles
 
-SIGMA_I0_MB = 40.26
-SIGMA_T0_MB = 51.48
-ALPHA_I = 0.71
-ALPHA_T = 0.77
-HYDROGEN = {"interaction": 52.0, "collision": 42.8}  # Review of Particle Physics, atomic and nuclear properties
-MB = 1e-27  # cm2
+KINDS = {"interaction": "interaction_length_g_cm2", "collision": "collision_length_g_cm2"}
+
+
+def is_tabulated(z: int) -> bool:
+    """True if element Z has its own tabulated nuclear lengths (else they are interpolated)."""
+    return int(z) in datafiles.nuclear_lengths()
 
 
 def element_nuclear_length(z: int, a: float, kind: str) -> float:
-    """lambda_I (kind='interaction') or lambda_T (kind='collision') of one element, g/cm2."""
-    if z == 1:
-        return HYDROGEN[kind]
-    sigma0, alpha = (SIGMA_I0_MB, ALPHA_I) if kind == "interaction" else (SIGMA_T0_MB, ALPHA_T)
-    return a / (datafiles.constant("avogadro") * sigma0 * MB * a ** alpha)
+    """lambda_I (kind='interaction') or lambda_T (kind='collision') of one element, g/cm2.
+
+    The tabulated value for element Z; otherwise the local power law in A between the tabulated neighbours
+    (interpolation in ln A, ln lambda), evaluated at the element's atomic weight a (g/mol).
+    """
+    table = datafiles.nuclear_lengths()
+    if int(z) in table:
+        return table[int(z)][KINDS[kind]]
+    rows = sorted(table.values(), key=lambda r: r["A"])
+    ln_a = np.log([r["A"] for r in rows])
+    ln_lam = np.log([r[KINDS[kind]] for r in rows])
+    x = float(np.log(a))
+    if x >= ln_a[-1]:  # beyond the heaviest tabulated element: continue its local law
+        slope = (ln_lam[-1] - ln_lam[-2]) / (ln_a[-1] - ln_a[-2])
+        return float(np.exp(ln_lam[-1] + slope * (x - ln_a[-1])))
+    return float(np.exp(np.interp(x, ln_a, ln_lam)))
 
 
 def nuclear_length(Z, A, w, kind: str) -> float:
     """lambda of a compound or mixture by mass-fraction sum of 1/lambda, g/cm2."""
     return 1.0 / sum(wj / element_nuclear_length(int(zj), float(aj), kind) for zj, aj, wj in zip(Z, A, w))
+
+
+def interpolated_elements(Z) -> list[int]:
+    """The elements of a material whose nuclear lengths are interpolated rather than tabulated."""
+    return sorted({int(z) for z in Z if not is_tabulated(int(z))})

@@ -1,11 +1,10 @@
-"""Radiation length, nuclear lengths, critical energy and Molière radius against the Review of Particle Physics."""
+"""Radiation length, critical energy and Molière radius against the Review of Particle Physics."""
 import numpy as np
 import pytest
 
 from refgen.materials import library_material
 from tests.physics.user_materials import CRITICAL_ENERGY, material_from_text, user_material
 from refgen.physics.medium import medium_of
-from refgen.physics.nuclear import nuclear_length
 from refgen.physics.radlen import radiation_length
 from refgen.physics.showers import (contained_fraction, containment_depth, critical_energy_crossing,
                                     critical_energy_rossi, moliere_radius,
@@ -35,23 +34,6 @@ def test_radiation_length_facts_of_the_trade():
     # common practice: X0 of lead is about 5.6 mm, of iron about 1.76 cm
     assert x0("lead") / 11.35 == pytest.approx(0.56, rel=0.01)
     assert x0("iron") / 7.874 == pytest.approx(1.76, rel=0.01)
-
-
-# Review of Particle Physics (2024): nuclear interaction and collision lengths, g/cm2 (from memory).
-# Reached with the A^0.71 / A^0.77 laws normalised to iron: lambda_I within 4% (uranium -3.5%),
-# lambda_T within 6% (lead -5.3%).
-LAMBDA_TABLE = [
-    ("beryllium", 77.8, 55.3), ("aluminium", 107.2, 69.7), ("silicon", 108.4, 70.2), ("copper", 137.3, 84.2),
-    ("tungsten", 191.9, 110.4), ("lead", 199.6, 116.2), ("uranium", 209.0, 118.6), ("water", 83.3, 58.5),
-    ("polystyrene", 81.7, 58.5),
-]
-
-
-@pytest.mark.parametrize("key, lam_i, lam_t", LAMBDA_TABLE)
-def test_nuclear_lengths_against_rpp(key, lam_i, lam_t):
-    z, a, w = library_material(key).arrays()
-    assert nuclear_length(z, a, w, "interaction") == pytest.approx(lam_i, rel=0.04)
-    assert nuclear_length(z, a, w, "collision") == pytest.approx(lam_t, rel=0.06)
 
 
 # Review of Particle Physics (2024): electron and positron critical energies (Rossi) in MeV, and R_M in cm (from memory).
