@@ -3,16 +3,18 @@ import inspect
 
 import refgen
 from refgen import build, changes, cli, report, spec
-from refgen.physics import (cherenkov, density_effect, kinematics, muon, nuclear, photons, radlen, ranges,
+from refgen.physics import (bremsstrahlung, cherenkov, density_effect, kinematics, muon, nuclear, photons, radlen, ranges,
                             scattering, scintillation, showers, stopping, straggling)
 
 SURFACE = {
     cli: ["main"], build: ["build"], spec: ["load_spec", "parse_spec", "validate"], report: ["make_report"],
     changes: ["compare", "load_baseline", "beyond"],
     kinematics: ["beta_gamma", "kinetic_energy", "momentum_of_kinetic", "w_max"],
-    density_effect: ["sternheimer_delta", "sternheimer_peierls_parameters"],
+    density_effect: ["sternheimer_delta", "sternheimer_peierls_parameters", "oscillator_strengths",
+                     "oscillator_delta_table", "density_correction"],
+    bremsstrahlung: ["radiative_stopping", "element_radiative_stopping", "three_bn", "elwert_factor"],
     stopping: ["bethe_stopping", "shell_correction", "bloch_correction", "electron_collision_stopping",
-               "electron_radiative_stopping", "mass_stopping_power"],
+               "electron_radiative_stopping", "mass_stopping_power", "muon_collision_stopping"],
     muon: ["radiative_b", "muon_critical_energy", "muon_radiative_stopping"],
     ranges: ["range_table", "kinetic_to_cross"],
     straggling: ["most_probable_loss", "landau_fwhm", "restricted_stopping", "landau_xi"],

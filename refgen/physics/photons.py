@@ -33,7 +33,7 @@ import numpy as np
 
 from .. import datafiles
 from .kinematics import electron_mass
-from .radlen import coulomb_correction, radiation_logs
+from .radlen import coulomb_correction, radiation_logs, tsai_screening
 
 VALID_MEV = (1e-3, 1e5)  # the model's validity: evaluated data from 1 keV; pair forms to 100 GeV
 MATCH_MEV = 0.5  # coherent and incoherent join here
@@ -103,17 +103,6 @@ def incoherent(e, symbol: str, z: int, a: float):
     return np.where(e <= MATCH_MEV, elam, free * s_high)
 
 
-def _screening(gamma, eps):
-    """Tsai's Thomas-Fermi screening functions phi1, phi2 (nucleus) and psi1, psi2 (electrons), Eqs. 3.38-3.41."""
-    phi1 = 20.863 - 2.0 * np.log(1.0 + (0.55846 * gamma) ** 2) - 4.0 * (1.0 - 0.6 * np.exp(-0.9 * gamma)
-                                                                       - 0.4 * np.exp(-1.5 * gamma))
-    phi2 = phi1 - 2.0 / 3.0 / (1.0 + 6.5 * gamma + 6.0 * gamma ** 2)
-    psi1 = 28.340 - 2.0 * np.log(1.0 + (3.621 * eps) ** 2) - 4.0 * (1.0 - 0.7 * np.exp(-8.0 * eps)
-                                                                   - 0.3 * np.exp(-29.2 * eps))
-    psi2 = psi1 - 2.0 / 3.0 / (1.0 + 40.0 * eps + 400.0 * eps ** 2)
-    return phi1, phi2, psi1, psi2
-
-
 def tsai_pair(e, z: int):
     """(nuclear, electron-field) pair cross sections per atom, cm2, from Tsai's screened Bethe-Heitler form.
 
@@ -137,7 +126,7 @@ def tsai_pair(e, z: int):
     xx = x * (1.0 - x)
     gamma = 100.0 * me / k / xx * z ** (-1.0 / 3.0)
     eps = 100.0 * me / k / xx * z ** (-2.0 / 3.0)
-    phi1, phi2, psi1, psi2 = _screening(gamma, eps)
+    phi1, phi2, psi1, psi2 = tsai_screening(gamma, eps)
     lnz = math.log(z)
     f = float(coulomb_correction(z))
     l_rad, l_rad_prime = radiation_logs(z)

@@ -25,6 +25,20 @@ def coulomb_correction(z):
     return a2 * (1.0 / (1.0 + a2) + 0.20206 - 0.0369 * a2 + 0.0083 * a2 ** 2 - 0.002 * a2 ** 3)
 
 
+def tsai_screening(gamma, eps):
+    """Tsai's Thomas-Fermi screening functions phi1, phi2 (nucleus) and psi1, psi2 (atomic electrons) of the
+    bremsstrahlung and pair-production cross sections (Tsai 1974, Eqs. 3.38-3.41); gamma and eps are the
+    screening variables 100 m_e k / (E E' Z^1/3) and 100 m_e k / (E E' Z^2/3) (for pairs, E and E' the pair
+    energies). At gamma, eps -> 0 (complete screening) phi1 = 20.863, psi1 = 28.340."""
+    phi1 = 20.863 - 2.0 * np.log(1.0 + (0.55846 * gamma) ** 2) - 4.0 * (1.0 - 0.6 * np.exp(-0.9 * gamma)
+                                                                       - 0.4 * np.exp(-1.5 * gamma))
+    phi2 = phi1 - 2.0 / 3.0 / (1.0 + 6.5 * gamma + 6.0 * gamma ** 2)
+    psi1 = 28.340 - 2.0 * np.log(1.0 + (3.621 * eps) ** 2) - 4.0 * (1.0 - 0.7 * np.exp(-8.0 * eps)
+                                                                   - 0.3 * np.exp(-29.2 * eps))
+    psi2 = psi1 - 2.0 / 3.0 / (1.0 + 40.0 * eps + 400.0 * eps ** 2)
+    return phi1, phi2, psi1, psi2
+
+
 def radiation_logs(z: int) -> tuple[float, float]:
     """(L_rad, L'_rad) for an element (Tsai 1974)."""
     if z in LIGHT_ELEMENT_L:

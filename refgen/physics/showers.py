@@ -48,11 +48,12 @@ def critical_energy_rossi(medium, x0: float, positron: bool = False) -> float:
 def critical_energy_crossing(medium, x0: float, positron: bool = False) -> float:
     """E_c by the crossing definition, MeV (kinetic energy): collision and radiative stopping powers are
     equal, S_col(T) = S_rad(T) (Review of Particle Physics 2024, Sec. 34.4.4). A different, higher number
-    than Rossi's; shown beside it under its own name."""
+    than Rossi's; shown beside it under its own name. ``x0`` is not needed here (the radiative stopping comes
+    from the bremsstrahlung cross section); both definitions take the same arguments."""
     def f(t):
         p = momentum_of_kinetic(t, electron_mass())
         return float(electron_collision_stopping(p, medium, positron)) - float(
-            electron_radiative_stopping(p, medium, x0))
+            electron_radiative_stopping(p, medium, positron))
     return _solve_kinetic(f)
 
 
