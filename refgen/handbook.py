@@ -122,3 +122,26 @@ def search_index(kn: dict, report: dict) -> list[dict]:
     for kind in kn["calorimeters"]:
         entries.append({"t": f"Showers: {kind}", "u": f"showers-{kind}.html", "k": "moliere containment shower maximum"})
     return entries
+
+
+MAX_TABLE_LAYERS = 150  # per-layer tables of longer stacks list a thinned selection; the CSVs keep every layer
+
+
+def table_layers(kn: dict) -> dict:
+    """The layers that per-layer tables list. A stack of up to MAX_TABLE_LAYERS layers is listed whole. A longer
+    one lists every k-th layer (about MAX_TABLE_LAYERS rows), the first and last layer of each system and the
+    last layer of the stack, with a note saying so: thousands of rows are neither readable nor cheap, and
+    every layer stays in the CSV files. ``rows`` pairs each listed layer's index with its key numbers."""
+    layers = kn["layers"]
+    n = len(layers)
+    if n <= MAX_TABLE_LAYERS:
+        return {"rows": [{"i": i, "l": l} for i, l in enumerate(layers)], "note": None}
+    k = -(-n // MAX_TABLE_LAYERS)
+    keep = set(range(0, n, k)) | {n - 1}
+    for kind in {l["system"] for l in layers}:
+        where = [i for i, l in enumerate(layers) if l["system"] == kind]
+        keep |= {where[0], where[-1]}
+    shown = sorted(keep)
+    return {"rows": [{"i": i, "l": layers[i]} for i in shown],
+            "note": (f"{len(shown)} of the stack's {n} layers are listed: every {k}th, and the first and last layer "
+                     "of each system. Every layer is in the CSV files on the downloads page.")}

@@ -8,6 +8,7 @@ from __future__ import annotations
 import json
 import math
 from importlib import resources
+from pathlib import Path
 
 import base64
 import csv
@@ -67,10 +68,15 @@ def markdown_safe(text: str) -> str:
                      link_rel="noopener noreferrer")
 
 
-def environment() -> jinja2.Environment:
-    """The Jinja2 environment over the installed templates, autoescaping everything."""
+def environment(cache_dir=None) -> jinja2.Environment:
+    """The Jinja2 environment over the installed templates, autoescaping everything. With ``cache_dir`` the
+    compiled templates are kept there (Jinja2 keys them by the template source)."""
     root = resources.files("refgen.templates")
-    env = jinja2.Environment(loader=jinja2.FileSystemLoader(str(root)), autoescape=True,
+    compiled = None
+    if cache_dir is not None:
+        Path(cache_dir).mkdir(parents=True, exist_ok=True)
+        compiled = jinja2.FileSystemBytecodeCache(str(cache_dir))
+    env = jinja2.Environment(loader=jinja2.FileSystemLoader(str(root)), autoescape=True, bytecode_cache=compiled,
                              undefined=jinja2.StrictUndefined, trim_blocks=True, lstrip_blocks=True)
     env.filters["num"] = lambda v, d=4: Markup(format_number(v, d))
     env.filters["species"] = lambda v: Markup(species_html(v))
@@ -201,12 +207,13 @@ def render_site(report: dict, build_info: dict, single: bool = False, workers: i
     jobs.update(photon_figures(report))
     jobs.update(radiator_figures(report))
     drawer = Drawer(jobs, workers=workers, cache_dir=cache_dir)
-    env = environment()
+    env = environment(Path(cache_dir).parent / "templates" if cache_dir is not None else None)
     kn = report["key_numbers"]
     systems = handbook.systems(kn, report)
     report = dict(report, has_changes=report.get("changes") is not None)
     common = {"kn": kn, "report": report, "build": build_info, "slugs": report["material_slugs"],
-              "summary_html": markdown_safe(report["summary_markdown"]), "systems": systems}
+              "summary_html": markdown_safe(report["summary_markdown"]), "systems": systems,
+              "layer_rows": handbook.table_layers(kn)}
     files: dict[str, bytes] = {}
     pages = [("index.html", "index.html", {"title": kn["experiment"]["name"], "page": "index",
                                            "strips": handbook.stack_strips(kn)}),

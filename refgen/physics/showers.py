@@ -16,7 +16,7 @@ from __future__ import annotations
 
 import numpy as np
 from scipy.optimize import brentq
-from scipy.special import gammainc, gammaincinv
+from scipy.special import gammainc, gammaincinv, gammaln, xlogy
 
 from .. import datafiles
 from .kinematics import electron_mass, momentum_of_kinetic
@@ -88,6 +88,7 @@ def containment_depth(fraction: float, energy: float, ec: float, photon: bool) -
 
 
 def profile(depth_x0, energy: float, ec: float, photon: bool):
-    """(1/E) dE/dt at depths t (X0): the Longo-Sestili gamma distribution."""
-    from scipy.stats import gamma as gamma_dist
-    return gamma_dist.pdf(np.asarray(depth_x0, dtype=float), profile_a(energy, ec, photon), scale=1.0 / PROFILE_B)
+    """(1/E) dE/dt at depths t (X0): the Longo-Sestili gamma distribution,
+    b (bt)^(a-1) exp(-bt) / Gamma(a)."""
+    a, bt = profile_a(energy, ec, photon), PROFILE_B * np.asarray(depth_x0, dtype=float)
+    return PROFILE_B * np.exp(xlogy(a - 1.0, bt) - bt - gammaln(a))
