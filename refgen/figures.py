@@ -6,7 +6,6 @@ from __future__ import annotations
 
 import functools
 import io
-import math
 import os
 import re
 from importlib import metadata
@@ -157,70 +156,118 @@ def profile_figure(t, series: list[dict], depth_x0: float) -> bytes:
         return to_svg(fig)
 
 
-BAND_COLOURS = {"photoelectric absorption": "#fbe3c8", "Compton scattering": "#dcebf5", "pair production": "#e2f1df"}
-PROCESS_LABELS = {"photoelectric": "photoelectric absorption", "coherent": "coherent (Rayleigh) scattering",
-                  "incoherent": "incoherent (Compton) scattering", "pair_nuclear": "pair production, nuclear field",
-                  "pair_electron": "pair production, electron field", "total": "total"}
+# Photon processes in house words; colours from the Okabe & Ito palette, light enough to print text over.
+PROCESS_COLOURS = {"photoabsorption": "#E69F00", "Compton scattering": "#56B4E9", "Rayleigh scattering": "#CC79A7",
+                   "pair conversion": "#009E73"}
+_INVALID_HATCH = {"facecolor": "none", "edgecolor": "#9aa3ad", "hatch": "xx", "linewidth": 0}
 
 
-def photon_figure(e, curves: dict, bands: list[dict]) -> bytes:
-    """Mass attenuation by process against photon energy, with the dominance bands shaded and named."""
+def _outside_validity(ax, lo: float, hi: float, valid: tuple[float, float], label: bool) -> None:
+    """Hatch the parts of a log energy axis [lo, hi] that lie outside the photon model's validity."""
+    for a, z in ((lo, min(hi, valid[0])), (max(lo, valid[1]), hi)):
+        if z > a:
+            ax.axvspan(a, z, zorder=0.5, **_INVALID_HATCH, label="outside the model's validity" if label else None)
+            label = False
+
+
+_LABEL_BOX = {"boxstyle": "square,pad=0.15", "facecolor": "white", "alpha": 0.75, "linewidth": 0}
+
+
+def _energy_marks(ax, marks: list[dict], where: str | None) -> None:
+    """Thin dashed vertical lines at the spec's photon energies of interest, labelled above the axes
+    (where="above") or inside them near the bottom (where="inside")."""
+    for m in marks:
+        ax.axvline(m["MeV"], color="#3b4650", linewidth=0.8, linestyle=(0, (4, 2)), zorder=3)
+        if where == "above":
+            ax.annotate(m["label"], (m["MeV"], 1.0), xycoords=("data", "axes fraction"), xytext=(2, 2),
+                        textcoords="offset points", rotation=90, ha="left", va="bottom", fontsize=6.5, color="#3b4650")
+        elif where == "inside":
+            ax.annotate(m["label"], (m["MeV"], 0.03), xycoords=("data", "axes fraction"), xytext=(-1, 0),
+                        textcoords="offset points", rotation=90, ha="right", va="bottom", fontsize=6.5,
+                        color="#1d252c", bbox=_LABEL_BOX, zorder=6)
+
+
+def photon_process_map(data: dict) -> bytes:
+    """The detector's photon map: one horizontal energy bar per material in stack order, coloured by the process
+    that dominates absorption, the crossover energies ticked and labelled on each bar, and the spec's photon
+    energies of interest drawn across all bars."""
     plt = _plt()
+    rows = data["rows"]
+    lo, hi = data["range_MeV"]
     with plt.rc_context(STYLE):
-        fig, ax = plt.subplots(figsize=(6.6, 4.2))
-        lo, hi = float(e[0]), float(e[-1])
-        for b in bands:
-            a, z = max(b["from_MeV"], lo), min(b["to_MeV"], hi)
-            if z <= a:
-                continue
-            ax.axvspan(a, z, color=BAND_COLOURS[b["process"]], zorder=0, linewidth=0)
-            ax.text(math.sqrt(a * z), 0.98, b["process"].replace(" ", "\n", 1), transform=ax.get_xaxis_transform(),
-                    ha="center", va="top", fontsize=7, color="#444444")
-        for i, key in enumerate(["total", "photoelectric", "incoherent", "coherent", "pair_nuclear", "pair_electron"]):
-            y = np.where(curves[key] > 0, curves[key], np.nan)
-            style = {"color": "#000000", "linestyle": "-", "linewidth": 2.2} if key == "total" else line_style(i - 1)
-            ax.plot(e, y, label=PROCESS_LABELS[key], **style)
+        fig, ax = plt.subplots(figsize=(7.2, 0.42 * len(rows) + 1.5))
+        for y, r in enumerate(rows):
+            for b in r["bands"]:
+                ax.barh(y, b["to_MeV"] - b["from_MeV"], left=b["from_MeV"], height=0.56,
+                        color=PROCESS_COLOURS[b["process"]], alpha=0.75, linewidth=0)
+            for c in r["crossovers"]:
+                if c["inside"]:
+                    ax.plot([c["MeV"], c["MeV"]], [y - 0.34, y + 0.34], color="#1d252c", linewidth=1.3, zorder=4)
+                    ax.annotate(c["label"], (c["MeV"], y - 0.3), xytext=(2, 0), textcoords="offset points",
+                                fontsize=6.5, color="#1d252c", va="bottom", zorder=5)
+        _outside_validity(ax, lo, hi, data["valid_MeV"], False)
+        _energy_marks(ax, data["marks"], "above")
+        ax.set_yticks(range(len(rows)))
+        ax.set_yticklabels([r["material"] for r in rows], fontsize=8)
+        ax.set_ylim(len(rows) - 0.5, -0.5)
         ax.set_xscale("log")
-        ax.set_yscale("log")
-        top = float(np.nanmax(curves["total"]))
-        ax.set_ylim(max(top * 1e-7, 1e-6), top * 30)
         ax.set_xlim(lo, hi)
+        ax.grid(axis="y", visible=False)
         ax.set_xlabel("photon energy (MeV)")
-        ax.set_ylabel("mass attenuation coefficient (cm²/g)")
-        ax.legend(fontsize=7.5, loc="upper left", bbox_to_anchor=(1.01, 1.0))
+        handles = [plt.Rectangle((0, 0), 1, 1, color=PROCESS_COLOURS[k], alpha=0.75)
+                   for k in ("photoabsorption", "Compton scattering", "pair conversion")]
+        ax.legend(handles, ["photoabsorption\ndominates", "Compton scattering\ndominates", "pair conversion\ndominates"],
+                  fontsize=7, loc="upper left", bbox_to_anchor=(1.01, 1.0), labelspacing=1.0)
         return to_svg(fig)
 
 
-def regime_figure(rows: list[dict], placed: list[dict]) -> bytes:
-    """The photon-regime map: crossover lines in the (energy, Z) plane with the spec's materials placed."""
+def photon_figure(data: dict) -> bytes:
+    """One material's photons: above, the mean free path (cm) against energy with the thickness of each layer of
+    the material drawn across and the high-energy limit 9/7 X0; below, the share of interactions by process
+    (stacked to 1), with pair conversion as one band and its electron-field part as a thin line. Solid vertical
+    lines are the crossovers, dashed ones the spec's energies of interest."""
     plt = _plt()
+    e = np.asarray(data["energy_MeV"], dtype=float)
+    c = data["curves"]
+    lo, hi = float(e[0]), float(e[-1])
+    valid = data["valid_MeV"]
+    inside = (e >= valid[0]) & (e <= valid[1])
     with plt.rc_context(STYLE):
-        fig, ax = plt.subplots(figsize=(6.6, 4.4))
-        z = np.array([r["Z"] for r in rows], dtype=float)
-        pc = np.array([np.nan if r["photoelectric_compton_MeV"] is None else r["photoelectric_compton_MeV"] for r in rows])
-        cp = np.array([np.nan if r["compton_pair_MeV"] is None else r["compton_pair_MeV"] for r in rows])
-        ax.fill_betweenx(z, 1e-3, pc, color=BAND_COLOURS["photoelectric absorption"], linewidth=0)
-        ax.fill_betweenx(z, pc, cp, color=BAND_COLOURS["Compton scattering"], linewidth=0)
-        ax.fill_betweenx(z, cp, 1e5, color=BAND_COLOURS["pair production"], linewidth=0)
-        ax.plot(pc, z, color="#8a4b00", linewidth=1.4, label="photoelectric = Compton")
-        ax.plot(cp, z, color="#1f5f8b", linewidth=1.4, linestyle="--", label="Compton = pair production")
-        labelled: list[float] = []
-        for p in sorted(placed, key=lambda q: q["z"]):
-            for x in (p["pc"], p["cp"]):
-                if x:
-                    ax.plot([x], [p["z"]], marker="o", markersize=3.5, color="#222222", linestyle="none")
-            if p["cp"] and all(abs(p["z"] - z0) > 3.0 for z0 in labelled):
-                ax.annotate(p["name"], (p["cp"], p["z"]), textcoords="offset points", xytext=(5, 2), fontsize=7)
-                labelled.append(p["z"])
-        ax.text(3e-3, 60, "photoelectric\nabsorption\ndominates", fontsize=8, color="#444444")
-        ax.text(0.5, 8, "Compton scattering\ndominates", fontsize=8, color="#444444", ha="center")
-        ax.text(2e3, 60, "pair\nproduction\ndominates", fontsize=8, color="#444444", ha="center")
-        ax.set_xscale("log")
-        ax.set_xlim(1e-3, 1e5)
-        ax.set_ylim(1, 100)
-        ax.set_xlabel("photon energy (MeV)")
-        ax.set_ylabel("atomic number Z (materials at their mean electron-weighted Z)")
-        ax.legend(fontsize=7.5, loc="lower right")
+        fig, (top, low) = plt.subplots(2, 1, figsize=(6.8, 5.4), sharex=True, gridspec_kw={"height_ratios": [1.25, 1.0]})
+        mfp = 1.0 / (np.asarray(c["total"]) * data["density_g_cm3"])
+        top.plot(e, np.where(inside, mfp, np.nan), color="#1d252c", linewidth=2.0, label="mean free path")
+        if (~inside).any():
+            top.plot(e, np.where(inside, np.nan, mfp), color="#1d252c", linewidth=0.8, linestyle=":")
+        top.axhline(data["high_energy_free_path_cm"], color="#1d252c", linewidth=0.8, linestyle=(0, (1, 2)))
+        top.annotate("9/7 X$_0$", (hi, data["high_energy_free_path_cm"]), xytext=(-2, 3), textcoords="offset points",
+                     ha="right", fontsize=7, color="#1d252c")
+        for i, t in enumerate(data["thicknesses"][:4]):
+            colour = PALETTE[(i + 3) % len(PALETTE)]
+            top.axhline(t["cm"], color=colour, linewidth=1.1, linestyle="--")
+            top.annotate(t["label"], (lo, t["cm"]), xytext=(3, 3), textcoords="offset points", fontsize=7, color=colour)
+        top.set_yscale("log")
+        top.set_ylabel("mean free path (cm)")
+        shares = [np.asarray(c[k]) / np.asarray(c["total"]) for k in ("photoabsorption", "compton", "rayleigh", "pair")]
+        names = ["photoabsorption", "Compton scattering", "Rayleigh scattering", "pair conversion"]
+        low.stackplot(e, *shares, colors=[PROCESS_COLOURS[n] for n in names], labels=names, alpha=0.75, linewidth=0)
+        electron = shares[3] * np.asarray(c["pair_electron_field_share"])
+        low.plot(e, 1.0 - electron, color="#1d252c", linewidth=0.7, label="above the thin line: pair\nconversion on atomic electrons")
+        low.set_ylim(0, 1)
+        low.set_ylabel("share of interactions")
+        low.set_xlabel("photon energy (MeV)")
+        for ax in (top, low):
+            _outside_validity(ax, lo, hi, valid, ax is low)
+            _energy_marks(ax, data["marks"], "inside" if ax is low else None)
+            for x in data["crossovers"]:
+                if lo <= x["MeV"] <= hi:
+                    ax.axvline(x["MeV"], color="#1d252c", linewidth=1.0, alpha=0.6)
+                    if ax is low:
+                        ax.annotate(x["label"], (x["MeV"], 0.97), xycoords=("data", "axes fraction"), xytext=(2, 0),
+                                    textcoords="offset points", ha="left", va="top", fontsize=6.5, color="#1d252c",
+                                    bbox=_LABEL_BOX, zorder=6)
+        low.set_xscale("log")
+        low.set_xlim(lo, hi)
+        low.legend(fontsize=7, loc="upper left", bbox_to_anchor=(1.01, 1.0))
         return to_svg(fig)
 
 

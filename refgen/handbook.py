@@ -103,7 +103,7 @@ def search_index(kn: dict, report: dict) -> list[dict]:
         {"t": "Quick reference", "u": "quickref.html", "k": "shift crew summary print"},
         {"t": "Charged particles", "u": "charged.html", "k": "reach momentum signals landau most probable carriers scattering theta0 scintillator birks"},
         {"t": "Material budget", "u": "budget.html", "k": "radiation length interaction length survival conversion x/X0"},
-        {"t": "Photons", "u": "photons.html", "k": "photoelectric compton pair conversion transmission attenuation regime"},
+        {"t": "Photons", "u": "photons.html", "k": "photoabsorption photoelectric compton rayleigh pair conversion transmission attenuation crossover map"},
         {"t": "Methods and validity", "u": "methods.html", "k": "formula reference validity accuracy caution"},
         {"t": "Downloads", "u": "downloads.html", "k": "csv json data files"},
     ]

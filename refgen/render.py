@@ -160,17 +160,10 @@ def calorimetry_figures(report: dict) -> dict[str, tuple]:
 
 
 def photon_figures(report: dict) -> dict[str, tuple]:
-    """One by-process figure per material and the regime map."""
-    kn = report["key_numbers"]
-    e = report["photon_energies_MeV"]
-    out = {}
-    placed = []
-    for name, slug in report["material_slugs"].items():
-        ph = kn["materials"][name]["photon"]
-        out[f"fig/photon-{slug}.svg"] = _job("photon_figure", e, report["photon_curves"][name], ph["dominance_bands"])
-        placed.append({"name": name, "z": kn["materials"][name]["z_eff"], "pc": ph["photoelectric_compton_crossover_MeV"],
-                       "cp": ph["compton_pair_crossover_MeV"]})
-    out["fig/photon-regimes.svg"] = _job("regime_figure", report["regime_map"]["rows"], placed)
+    """One figure per material (mean free path and shares by process) and the detector's photon map."""
+    out = {f"fig/photon-{slug}.svg": _job("photon_figure", report["photon_figures"][name])
+           for name, slug in report["material_slugs"].items()}
+    out["fig/photon-map.svg"] = _job("photon_process_map", report["photon_map"])
     return out
 
 

@@ -9,7 +9,7 @@ from pathlib import Path
 
 import numpy as np
 
-from . import __version__, attenuation, calorimetry, charged, radiators
+from . import __version__, attenuation, calorimetry, charged, material_card, radiators
 from .cache import cached_map
 from .model import SYSTEM_KINDS, Spec
 from .physics.medium import medium_of
@@ -104,6 +104,7 @@ def material_physics(m, photon_energies) -> dict:
                                  "species": "muon"}
     numbers["muon_critical_energy_GeV"] = charged.muon_critical_energy_gev(m, medium)
     numbers.update(calorimetry.material_lengths(m, medium, x0))
+    numbers.update(material_card.card_numbers(m, medium, bg))
     numbers["photon"], photon_curves = attenuation.material_photons(m, photon_energies)
     return {"medium": medium, "x0": x0, "min_ion": min_ion, "numbers": numbers, "photon_curves": photon_curves,
             "layer_coeffs": attenuation.layer_energy_coefficients(m)}
@@ -234,14 +235,18 @@ def make_report(spec: Spec, progress=None, cache_dir=None, workers: int = 1) -> 
         "photon_energies_MeV": spec.photon_energy.values(),
         "layer_slugs": layer_slugs,
         "radiator_curves": radiator_curves,
-        "photon_curves": photon_curves,
-        "regime_map": regime,
+        "photon_map": attenuation.photon_map(spec, materials),
+        "photon_figures": {name: attenuation.photon_figure_data(spec, name, materials[name], c)
+                           for name, c in photon_curves.items()},
+        "photon_tables": {name: attenuation.photon_table(spec, m) for name, m in spec.materials.items()},
+        "photon_process_words": attenuation.PROCESS_WORDS,
+        "material_cards": {name: material_card.card_groups(materials[name]) for name in materials},
         "shower_profiles": shower_profiles,
         "tracking_scattering_curves": scattering,
         "shower_energy_keys": [f"{e / 1e3:g}" for e in spec.shower_energies],
         "csv_descriptions": {"data/reach.csv": "momentum each species needs to reach each layer",
                              "data/tracking-scattering.csv": "Highland theta0 against momentum through the tracking volume, per species",
                              "data/budget.csv": "material budget and hadron survival per layer",
-                             "data/photon-regimes.csv": "photon-regime crossover energies for Z = 1-98",
+                             "data/photon-regimes.csv": "photon crossover energies element by element, Z = 1-98 (photoabsorption = Compton, Compton = pair conversion)",
                              **{f"data/showers-{k}.csv": f"longitudinal shower profiles in the {k}" for k in systems}},
     }

@@ -45,7 +45,21 @@ def test_gas_without_conditions_gets_a_note():
     text = BASE.replace(", temperature: 20 degC, pressure: 1 atm", "")
     spec = parse_spec(text)
     assert spec.materials["gas"].is_gas
-    assert spec.notes == ("material 'gas': gas without temperature and pressure; 20 degC and 1 atm assumed",)
+    assert "material 'gas': gas without temperature and pressure; 20 degC and 1 atm assumed" in spec.notes
+
+
+def test_photon_range_without_one_is_derived_from_the_shower_energies():
+    # 10 keV to ten times the largest shower energy (2 GeV), with a note saying so
+    spec = parse_spec(BASE + "shower_energies: [0.5 GeV, 2 GeV]\n")
+    assert (spec.photon_energy.start, spec.photon_energy.stop) == pytest.approx((1e-2, 2e4))
+    assert any(n.startswith("photon_energy not given: 10 keV to 20 GeV") for n in spec.notes)
+    # the default showers reach 100 GeV: ten times that lies beyond the photon model, so the range stops at its edge
+    spec = parse_spec(BASE)
+    assert spec.photon_energy.stop == pytest.approx(1e5)
+    # a range given in the spec is used as it is, without a note
+    spec = parse_spec(BASE + "photon_energy: {from: 30 keV, to: 5 GeV}\n")
+    assert (spec.photon_energy.start, spec.photon_energy.stop) == pytest.approx((3e-2, 5e3))
+    assert not any(n.startswith("photon_energy") for n in spec.notes)
 
 
 def test_fractions_in_percent_or_unit_sum_are_accepted():

@@ -15,7 +15,7 @@ from ..errors import Problem, SpecError
 from ..model import Spec
 from ..yamlio import load_with_lines
 from .context import Context
-from .experiment import read_experiment, read_grid, read_particles, read_shower_energies
+from .experiment import derived_photon_range, read_experiment, read_grid, read_particles, read_shower_energies
 from .field_section import read_field
 from .layer_section import read_layers
 from .material_section import read_materials
@@ -25,7 +25,8 @@ TOP_LEVEL_KEYS = {
     "experiment": "Name, revision and a Markdown summary of the experiment (required).",
     "particles": "Species to tabulate: built-in names, or {name: {mass: ..., charge: ...}} for custom ones (required).",
     "momentum": "Log-spaced momentum grid for the charged-particle curves: {from, to, points}.",
-    "photon_energy": "Log-spaced photon-energy grid: {from, to, points}.",
+    "photon_energy": "Log-spaced photon-energy grid: {from, to, points} (default: 10 keV to ten times the largest "
+                     "shower energy, at most 100 GeV).",
     "shower_energies": "Energies at which electromagnetic showers are tabulated, e.g. [1 GeV, 10 GeV].",
     "materials": "Materials by name: from the library, a formula, or a mixture (required).",
     "layers": "The layer stack, ordered outward from the interaction point (required).",
@@ -51,8 +52,8 @@ def validate(data, lines: dict, source: str = "spec", strict: bool = False, text
     experiment = read_experiment(ctx, data)
     species = read_particles(ctx, data)
     momentum = read_grid(ctx, data, "momentum", "momentum", ("50 MeV/c", "500 GeV/c", 200))
-    photon = read_grid(ctx, data, "photon_energy", "energy", ("1 keV", "100 GeV", 200))
     showers = read_shower_energies(ctx, data)
+    photon = read_grid(ctx, data, "photon_energy", "energy", derived_photon_range(ctx, data, showers))
     mats = read_materials(ctx, data)
     material_names = set(data.get("materials", {}) or {}) if isinstance(data.get("materials"), dict) else set()
     layers = read_layers(ctx, data, mats, material_names)

@@ -113,6 +113,18 @@ def read_grid(ctx: Context, data, key: str, dimension: str, default: tuple[str, 
     return Grid(lo, hi, points)
 
 
+def derived_photon_range(ctx: Context, data, showers) -> tuple[str, str, int]:
+    """The photon grid when the spec gives none: from 10 keV (softer photons are absorbed within about 0.1 mm of
+    silicon and seldom matter in a particle detector) to ten times the largest shower energy (the photons of a
+    shower of that energy, with a decade to spare), kept inside the photon model's validity; a note says so."""
+    from ..physics.photons import VALID_MEV
+    lo, hi = 1e-2, min(10.0 * max(showers, default=1e4), VALID_MEV[1])
+    if "photon_energy" not in data:
+        ctx.notes.append(f"photon_energy not given: {lo * 1e3:g} keV to {hi / 1e3:g} GeV, up to ten times the largest "
+                         f"shower energy (at most {VALID_MEV[1] / 1e3:g} GeV, the photon model's edge)")
+    return (f"{lo * 1e3:g} keV", f"{hi / 1e3:g} GeV", 200)
+
+
 def read_shower_energies(ctx: Context, data) -> tuple[float, ...]:
     """The `shower_energies:` list (MeV), sorted and without repeats."""
     value = data.get("shower_energies", ["1 GeV", "10 GeV", "100 GeV"])
