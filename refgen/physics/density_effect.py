@@ -31,7 +31,7 @@ import math
 import numpy as np
 
 LN10 = math.log(10.0)
-GENERAL_RULES_MIN_SPAN = 2.0  # smallest x1 - x0 of the general rules (Sternheimer & Peierls 1971, gas table)
+GENERAL_RULES_MIN_SPAN = 2.0  # x1 - x0 where the condensed rules would give x0 >= x1 (the gas table's smallest span)
 
 
 def sternheimer_delta(bg, cbar: float, x0: float, x1: float, a: float, k: float, delta0: float = 0.0):
@@ -69,7 +69,8 @@ def sternheimer_peierls_parameters(i_ev: float, plasma_ev: float, gas: bool) -> 
         x0 = 0.2 if cbar < 5.215 else 0.326 * cbar - 1.5
     # a condensed material of low density (an aerogel, a foam) can give x0 >= x1 from the condensed rules,
     # where delta would jump; the gas rules' separation x1 - x0 >= 2 is kept instead
-    x1 = max(x1, x0 + GENERAL_RULES_MIN_SPAN)
+    if x0 >= x1:
+        x1 = x0 + GENERAL_RULES_MIN_SPAN
     k = 3.0
     a = (cbar - 2.0 * LN10 * x0) / (x1 - x0) ** k
     return {"cbar": cbar, "x0": x0, "x1": x1, "a": a, "k": k, "delta0": 0.0}

@@ -106,8 +106,11 @@ def test_oscillator_delta_reaches_its_asymptote():
 
 def test_general_rules_keep_x0_below_x1():
     # a condensed material of very low density (foam-like) must not get x0 >= x1 (delta would jump)
-    p = sternheimer_peierls_parameters(150.0, 0.5, gas=False)
+    # (I = 150 eV, hbar omega_p = 0.1 eV: the condensed rule gives x0 = 3.6 above x1 = 3)
+    p = sternheimer_peierls_parameters(150.0, 0.1, gas=False)
     assert p["x1"] > p["x0"]
+    # the rules themselves are untouched where they give x0 < x1 (Sternheimer & Peierls 1971: x1 = 2 for I < 100 eV)
+    assert sternheimer_peierls_parameters(60.0, 20.0, gas=False)["x1"] == 2.0
     bg = np.geomspace(0.1, 1e5, 400)
     assert np.all(np.diff(sternheimer_delta(bg, **p)) >= -1e-12)
 
