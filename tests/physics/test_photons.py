@@ -129,6 +129,17 @@ def user_deviation(name, e, process="total"):
     return ours / ref - 1.0
 
 
+def test_lead_pair_above_5_MeV():
+    # a strict xfail until the low-energy Coulomb correction (lead was -36 % at 5 MeV); reached 1.4 % (pair and triplet)
+    assert max_deviation("lead", HIGH, "pair") <= 0.03
+
+
+def test_heavy_totals_between_2_and_20_MeV():
+    # a strict xfail until the low-energy Coulomb correction (lead -17 %, sodium iodide -7 % at 5 MeV); reached 1.4 %
+    e = np.array([2.0, 3.0, 5.0, 10.0, 20.0])
+    assert max(max_deviation("lead", e, "total"), max_deviation("sodium-iodide", e, "total")) <= 0.03
+
+
 @pytest.mark.parametrize("name", HEAVY)
 def test_total_of_heavy_user_materials_1_to_50_MeV(name):
     # aim (and reached): 2 % for lead, tungsten, iodine, bismuth, caesium and barium compounds
