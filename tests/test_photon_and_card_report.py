@@ -109,3 +109,17 @@ def test_most_probable_loss_in_1_mm_of_silicon(demo_report):
     # more; 1 mm therefore gives 270-300 keV
     mpv = demo_report["key_numbers"]["materials"]["silicon"]["mip_most_probable_in_1_mm_MeV"]
     assert 0.27 < mpv < 0.30
+
+
+def test_demo_radiators_have_consistent_indices(demo_spec):
+    from refgen.physics.cherenkov import HC_EV_NM, refractive_index
+    gas = demo_spec.materials["radiator-gas"]
+    # CRC Handbook of Chemistry and Physics, refractive index of gases (from memory): carbon dioxide at 0 degC,
+    # 101.325 kPa and 589 nm has (n - 1) = 449e-6
+    n_ref = refractive_index(gas.refractive_index, HC_EV_NM / 589.3, 1.0)
+    assert n_ref - 1.0 == pytest.approx(449e-6, rel=2e-3)
+    # the spec's 20 degC and 1.3 atm: (n - 1) scales with the ideal-gas density, 1.3 x 273.15 / 293.15
+    assert gas.index_density_ratio == pytest.approx(1.3 * 273.15 / 293.15, rel=1e-6)
+    # silica aerogel: n - 1 = 0.21 rho [g/cm3] (common practice); the demo's n = 1.025 at 0.12 g/cm3
+    aerogel = demo_spec.materials["aerogel"]
+    assert aerogel.refractive_index.value - 1.0 == pytest.approx(0.21 * aerogel.density, rel=0.02)
