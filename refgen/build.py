@@ -64,10 +64,10 @@ def write_site(files: dict[str, bytes], out: Path, force: bool) -> None:
 
 
 def build(spec_path, out, *, force: bool = False, strict: bool = False, build_date: str | None = None,
-          baseline=None, single_file: bool = False, workers: int | None = None, cache: bool = True,
+          baseline=None, tolerance: float | None = None, single_file: bool = False, workers: int | None = None, cache: bool = True,
           progress=None) -> dict:
     """Build the handbook for one spec into ``out``. Returns the report (with ``changes`` when a baseline
-    key-numbers.json is given)."""
+    key-numbers.json is given; moves beyond ``tolerance`` are listed first)."""
     say = progress or (lambda msg: None)
     say("validating the spec")
     spec = load_spec(spec_path, strict=strict)
@@ -76,7 +76,7 @@ def build(spec_path, out, *, force: bool = False, strict: bool = False, build_da
     workers = workers or min(2, os.cpu_count() or 1)
     cache_dir = cache_root() if cache else None
     report = make_report(spec, progress=say, cache_dir=cache_dir, workers=workers)
-    report["changes"] = compare(old, report["key_numbers"]) if old is not None else None
+    report["changes"] = compare(old, report["key_numbers"], tolerance) if old is not None else None
     say("rendering the pages and figures")
     files = render_site(report, build_info(spec, build_date), single=single_file,
                         workers=workers, cache_dir=cache_dir / "figures" if cache else None)

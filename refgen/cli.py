@@ -1,7 +1,12 @@
-"""The refgen command line: build, check, materials. Prints one line per problem, never a traceback."""
+"""The refgen command line: build, compare, check, materials. Prints one line per problem, never a traceback.
+
+Exit status: 0 success, 2 bad input (spec, baseline, option or output folder), 3 key numbers moved beyond the
+tolerance, 130 interrupted. A closed output pipe (``refgen ... | head``) ends quietly with 0.
+"""
 from __future__ import annotations
 
 import argparse
+import math
 import os
 import sys
 from importlib import resources
@@ -15,6 +20,17 @@ DEMO_SPEC = "kestrel-forward.yaml"
 def demo_spec_path() -> str:
     """Path of the bundled demo spec (project_spec/, installed as refgen.demo)."""
     return str(resources.files("refgen.demo").joinpath(DEMO_SPEC))
+
+
+def _tolerance(text: str) -> float:
+    """A relative tolerance: a finite number >= 0."""
+    try:
+        value = float(text)
+    except ValueError:
+        raise argparse.ArgumentTypeError(f"not a number: '{text}'") from None
+    if not math.isfinite(value) or value < 0:
+        raise argparse.ArgumentTypeError(f"must be a finite number >= 0 (got '{text}')")
+    return value
 
 
 def _parser() -> argparse.ArgumentParser:
@@ -32,12 +48,15 @@ def _parser() -> argparse.ArgumentParser:
     b.add_argument("--no-cache", action="store_true", help="recompute every number and redraw every figure (ignore the cache)")
     b.add_argument("--single-file", action="store_true", help="also write DIR/handbook.html, one self-contained file")
     b.add_argument("--baseline", help="an earlier key-numbers.json: write a changes page listing every number that moved")
-    b.add_argument("--fail-on-change", type=float, metavar="TOL",
+    b.add_argument("--fail-on-change", type=_tolerance, metavar="TOL",
                    help="with --baseline: exit 3 when any key number moved by more than TOL (relative, e.g. 0.01)")
-    cmp_ = sub.add_parser("compare", help="list the key numbers that moved between two key-numbers.json files")
-    cmp_.add_argument("old")
-    cmp_.add_argument("new")
-    cmp_.add_argument("--tolerance", type=float, default=0.0, help="report only moves beyond this relative change")
+    cmp_ = sub.add_parser("compare", help="list what changed between two key-numbers.json files; exit 3 if any "
+                          "number moved beyond the tolerance")
+    cmp_.add_argument("old", help="the baseline key-numbers.json")
+    cmp_.add_argument("new", help="the new key-numbers.json")
+    cmp_.add_argument("--tolerance", type=_tolerance, default=0.0, metavar="TOL",
+                      help="relative change that counts as moved, e.g. 0.01 for 1%% (default 0: any move)")
+    cmp_.add_argument("--all", action="store_true", help="list every row (default: the largest 40 of each list)")
     c = sub.add_parser("check", help="only validate a spec")
     c.add_argument("spec")
     c.add_argument("--strict", action="store_true", help="treat spec warnings as errors")
@@ -52,21 +71,32 @@ def _materials() -> int:
 
 
 def _compare(args) -> int:
-    from .changes import beyond, compare, load_baseline
-    changes = compare(load_baseline(args.old), load_baseline(args.new))
-    over = beyond(changes, args.tolerance)
-    for m in over:
-        rel = "" if m["relative_change"] is None else f" ({m['relative_change'] * 100:+.3g}%)"
-        print(f"{m['key']}: {m['old']} -> {m['new']}{rel}")
-    for a in changes["added"]:
-        print(f"added: {a['key']}")
-    for r in changes["removed"]:
-        print(f"removed: {r['key']}")
-    return 3 if over or changes["added"] or changes["removed"] else 0
+    from .changes import compare, counted, load_baseline, text_report
+    changes = compare(load_baseline(args.old), load_baseline(args.new), args.tolerance)
+    for line in text_report(changes, limit=None if args.all else 40):
+        print(line)
+    return 3 if counted(changes) else 0
 
 
 def main(argv=None) -> int:
     args = _parser().parse_args(argv)
+    try:
+        return _run(args)
+    except BrokenPipeError:
+        _silence_stdout()
+        return 0
+
+
+def _silence_stdout() -> None:
+    """The reader of our output went away (``| head``): point stdout at /dev/null so the final flush is quiet."""
+    try:
+        devnull = os.open(os.devnull, os.O_WRONLY)
+        os.dup2(devnull, sys.stdout.fileno())
+    except (OSError, ValueError):
+        pass
+
+
+def _run(args) -> int:
     try:
         if args.command == "materials":
             return _materials()
@@ -90,8 +120,8 @@ def main(argv=None) -> int:
         progress = None if quiet else (lambda msg: print(f"refgen: {msg}", file=sys.stderr))
         spec_path = args.spec or demo_spec_path()
         report = build(spec_path, args.out, force=args.force, strict=args.strict, build_date=args.build_date,
-                       baseline=args.baseline, single_file=args.single_file, cache=not args.no_cache,
-                       progress=progress)
+                       baseline=args.baseline, tolerance=args.fail_on_change, single_file=args.single_file,
+                       cache=not args.no_cache, progress=progress)
         for w in report["warnings"]:
             print(f"warning: {w}", file=sys.stderr)
         for n in report["notes"]:
@@ -99,16 +129,15 @@ def main(argv=None) -> int:
         if not quiet:
             print(f"refgen: handbook written to {os.path.join(args.out, 'index.html')}", file=sys.stderr)
         if report["changes"] is not None:
-            from .changes import beyond
-            moved = report["changes"]["moved"]
-            print(f"refgen: {len(moved)} key numbers moved since the baseline (see changes.html)", file=sys.stderr)
-            if args.fail_on_change is not None:
-                over = beyond(report["changes"], args.fail_on_change)
-                for m in over:
-                    print(f"changed: {m['key']}: {m['old']} -> {m['new']}", file=sys.stderr)
-                if over:
-                    print(f"error: {len(over)} key numbers moved by more than {args.fail_on_change:g}", file=sys.stderr)
-                    return 3
+            from .changes import counted, text_report
+            for line in text_report(report["changes"], limit=15):
+                print(f"refgen: {line}", file=sys.stderr)
+            print(f"refgen: the full comparison is in {os.path.join(args.out, 'changes.html')}", file=sys.stderr)
+            n = counted(report["changes"])
+            if args.fail_on_change is not None and n:
+                print(f"error: {n} key numbers moved by more than {args.fail_on_change * 100:g} % (or appeared or "
+                      "disappeared); exit status 3", file=sys.stderr)
+                return 3
         return 0
     except SpecError as exc:
         for p in exc.problems:

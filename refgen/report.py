@@ -11,6 +11,7 @@ import numpy as np
 
 from . import __version__, attenuation, calorimetry, charged, material_card, radiators
 from .cache import cached_map
+from .changes import spec_summary
 from .model import SYSTEM_KINDS, Spec
 from .physics.medium import medium_of
 from .physics.radlen import radiation_length
@@ -170,6 +171,7 @@ def make_report(spec: Spec, progress=None, cache_dir=None, workers: int = 1) -> 
         "refgen_version": __version__,
         "spec_sha256_16": spec.spec_hash,
         "experiment": {"name": spec.experiment.name, "revision": spec.experiment.revision},
+        "spec": spec_summary(spec),
         "particles": {s.key: {"label": s.label, "mass_MeV": s.mass, "charge": s.charge, "custom": s.custom}
                       for s in spec.species},
         "materials": materials,
