@@ -212,7 +212,8 @@ def describe(path: tuple, root: dict) -> tuple[str, str]:
         elif last:
             leaf, unit = split_unit(part)
         else:
-            w = _WORDS.get(part, split_unit(part)[0])
+            w, u = split_unit(part)
+            w, unit = _WORDS.get(part, w), u or unit
             if w:
                 words.append(w)
     if leaf:
@@ -387,12 +388,13 @@ def _merge_same(rows: list[dict]) -> list[dict]:
     out: dict[tuple, dict] = {}
     for r in rows:
         key = (repr(r["old"]), repr(r["new"]), r["unit"])
-        if key in out:
-            if r["label"] != out[key]["label"] and r["label"] not in out[key]["also"]:
-                out[key]["also"].append(r["label"])
-        else:
-            out[key] = dict(r, also=[])
-    return list(out.values())
+        out.setdefault(key, []).append(r)
+    merged = []
+    for same in out.values():  # the shortest name leads: "thickness of pixel-1", not "signal slab thickness of ..."
+        same.sort(key=lambda r: len(r["label"]))
+        also = list(dict.fromkeys(r["label"] for r in same[1:] if r["label"] != same[0]["label"]))
+        merged.append(dict(same[0], also=also, also_keys=[r["key"] for r in same[1:]]))
+    return merged
 
 
 def _group(rows: list[dict], spec: dict | None, kind: str) -> list[dict]:
@@ -442,6 +444,8 @@ def format_value(value, unit: str = "") -> str:
     if isinstance(value, float):
         if not math.isfinite(value):
             return "not given"
+        if unit == "cm" and 0 < abs(value) < 0.1:
+            return f"{significant(value * 1e4)} um"
         return f"{significant(value)}{' ' + unit if unit else ''}"
     return str(value)
 
@@ -514,7 +518,7 @@ def _item_text(entry) -> str:
 def text_report(changes: dict, limit: int | None = None) -> list[str]:
     """The comparison as lines of text: spec changes, numbers beyond the tolerance, the rest, notes."""
     if changes["nothing"]:
-        return ["No key number moved, and the spec is the same: nothing to report."]
+        return ["Nothing moved: the spec is the same and no key number changed beyond rounding."]
     out = []
     spec = changes["spec"]
     if spec is None:

@@ -8,7 +8,7 @@ from refgen.physics import (bremsstrahlung, cherenkov, density_effect, kinematic
 
 SURFACE = {
     cli: ["main"], build: ["build"], spec: ["load_spec", "parse_spec", "validate"], report: ["make_report"],
-    changes: ["compare", "load_baseline", "beyond"],
+    changes: ["compare", "load_baseline", "counted", "text_report", "spec_summary"],
     kinematics: ["beta_gamma", "kinetic_energy", "momentum_of_kinetic", "w_max"],
     density_effect: ["sternheimer_delta", "sternheimer_peierls_parameters", "oscillator_strengths",
                      "oscillator_delta_table", "density_correction"],
