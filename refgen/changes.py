@@ -76,7 +76,8 @@ def _slab_text(s) -> str:
 
 
 def spec_summary(spec) -> dict:
-    """The spec as defined (internal units), stored in key-numbers.json so that a baseline carries it."""
+    """The spec as defined (internal units), stored in key-numbers.json so that a baseline carries it.
+    Fields that are not given are left out (never null)."""
     materials = {}
     for name, m in spec.materials.items():
         entry = {"composition": _composition(m), "density_g_cm3": m.density, "state": m.state,
@@ -86,7 +87,7 @@ def spec_summary(spec) -> dict:
         if m.scintillator:
             entry["scintillator_light_yield_per_MeV"] = m.scintillator.get("light_yield_per_MeV")
             entry["scintillator_birks_cm_per_MeV"] = m.scintillator.get("birks_cm_per_MeV")
-        materials[name] = entry
+        materials[name] = {k: v for k, v in entry.items() if v is not None}
     layers = []
     for layer in spec.layers:
         entry = {"name": layer.name, "system": layer.system, "thickness_cm": layer.thickness}
@@ -101,8 +102,9 @@ def spec_summary(spec) -> dict:
         "layers": layers,
         "species": {s.key: {"label": s.label, "mass_MeV": s.mass, "charge": s.charge} for s in spec.species},
         "radiators": {r.layer: {"photon_band_eV": f"{r.band_eV[0]:.4g}-{r.band_eV[1]:.4g}",
-                                "detection_efficiency": r.detection_efficiency, "mode": r.mode,
-                                "angle_resolution_mrad": r.angle_resolution_mrad} for r in spec.radiators},
+                                "detection_efficiency": r.detection_efficiency, "mode": r.mode}
+                      | ({"angle_resolution_mrad": r.angle_resolution_mrad} if r.angle_resolution_mrad else {})
+                      for r in spec.radiators},
         "settings": {"momentum_GeV_c": f"{spec.momentum.start / 1e3:.6g} to {spec.momentum.stop / 1e3:.6g}, "
                                        f"{spec.momentum.points} points",
                      "photon_energy_MeV": f"{spec.photon_energy.start:.6g} to {spec.photon_energy.stop:.6g}, "
