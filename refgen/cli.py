@@ -60,13 +60,55 @@ def _parser() -> argparse.ArgumentParser:
     c = sub.add_parser("check", help="only validate a spec")
     c.add_argument("spec")
     c.add_argument("--strict", action="store_true", help="treat spec warnings as errors")
-    sub.add_parser("materials", help="list the built-in material library")
+    sub.add_parser("materials", help="list the built-in material library with each material's composition")
+    sub.add_parser("particles", help="list the built-in particle species: names accepted, mass, charge")
+    sub.add_parser("keys", help="print the reference of every spec key (generated from the validator's schema)")
     return p
 
 
+def _composition(text: str) -> str:
+    """A library composition as a reader writes it: 'mass:C=0.5;H=0.5' -> 'C 50 %, H 50 % by mass'."""
+    kind, _, body = text.partition(":")
+    if kind == "formula":
+        return body
+    if kind == "mass":
+        parts = [p.partition("=") for p in body.split(";") if p]
+        return ", ".join(f"{name} {float(f) * 100:.4g} %" for name, _, f in parts) + " by mass"
+    if kind == "pseudo":
+        return "pseudo-element " + body.replace(";", ", ")
+    return text
+
+
 def _materials() -> int:
-    for key, entry in datafiles.library_materials().items():
-        print(f"{key:20s} {entry['density']:<10g} g/cm3  {entry['state']:7s} {entry['description']}")
+    rows = [(key, f"{e['density']:g}", e["state"], "" if e["I_eV"] is None else f"{e['I_eV']:g}",
+             _composition(e["composition"]), e["description"]) for key, e in datafiles.library_materials().items()]
+    header = ("key", "density g/cm3", "state", "I eV", "composition", "description")
+    widths = [max(len(r[i]) for r in rows + [header]) for i in range(5)]
+    print("  ".join(h.ljust(w) for h, w in zip(header, widths)) + "  " + header[5])
+    for r in rows:
+        print("  ".join(c.ljust(w) for c, w in zip(r, widths)) + "  " + r[5])
+    print(f"\n{len(rows)} materials. Use one in a spec as {{library: KEY}}; I blank = Bragg additivity.")
+    return 0
+
+
+def _particles() -> int:
+    import particle
+    rows = [(p["key"], p["label"], f"{p['mass']:.10g}", f"{p['charge']:+d}", ", ".join(p["aliases"]))
+            for p in datafiles.particles().values()]
+    header = ("key", "label", "mass MeV", "charge", "also accepted as")
+    widths = [max(len(r[i]) for r in rows + [header]) for i in range(4)]
+    print("  ".join(h.ljust(w) for h, w in zip(header, widths)) + "  " + header[4])
+    for r in rows:
+        print("  ".join(c.ljust(w) for c, w in zip(r, widths)) + "  " + r[4])
+    print(f"\nMasses and charges from the particle package {particle.__version__} (Particle Data Group tables); "
+          "masses of the bare nuclei d, t, He-3 and alpha from CODATA via scipy.constants. Names are matched "
+          "ignoring case and spaces. Any other species: particles: [{NAME: {mass: ..., charge: ...}}].")
+    return 0
+
+
+def _keys() -> int:
+    from .reference import key_reference
+    print(key_reference(), end="")
     return 0
 
 
@@ -81,7 +123,9 @@ def _compare(args) -> int:
 def main(argv=None) -> int:
     args = _parser().parse_args(argv)
     try:
-        return _run(args)
+        status = _run(args)
+        sys.stdout.flush()  # inside the try: a closed pipe is noticed here, not at interpreter exit
+        return status
     except BrokenPipeError:
         _silence_stdout()
         return 0
@@ -100,6 +144,10 @@ def _run(args) -> int:
     try:
         if args.command == "materials":
             return _materials()
+        if args.command == "particles":
+            return _particles()
+        if args.command == "keys":
+            return _keys()
         if args.command == "check":
             from .spec import load_spec
             spec = load_spec(args.spec, strict=args.strict)

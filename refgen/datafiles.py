@@ -8,6 +8,7 @@ from __future__ import annotations
 import csv
 import functools
 import io
+import math
 from importlib import resources
 from types import MappingProxyType
 
@@ -40,14 +41,40 @@ def _number(filename: str, lineno: int, row: dict, column: str, optional: bool =
         raise DataFileError(f"{filename}, line {lineno}: column {column} is not a number: '{text}'") from None
 
 
+def _codata(name: str) -> float:
+    """One CODATA recommended value from scipy.constants (in the units scipy gives)."""
+    import scipy.constants as sc
+    return sc.physical_constants[name][0]
+
+
 @functools.cache
 def constants() -> MappingProxyType:
-    """Physical constants by name, in internal units (constants.csv)."""
-    return MappingProxyType({row["name"]: _number("constants.csv", n, row, "value") for n, row in _read_rows("constants.csv")})
+    """Physical constants by name, in internal units (MeV, cm, g), from scipy.constants (the CODATA edition
+    scipy ships) and derived from them as the Review of Particle Physics (2024) Table 34.1 defines them."""
+    import scipy.constants as sc
+    me = _codata("electron mass energy equivalent in MeV")
+    re_cm = _codata("classical electron radius") * 100.0
+    alpha = sc.fine_structure
+    hbar_c_cm = _codata("reduced Planck constant times c in MeV fm") * 1e-13
+    return MappingProxyType({
+        "electron_mass": me,  # MeV
+        "muon_mass": _codata("muon mass energy equivalent in MeV"),  # MeV
+        "fine_structure": alpha,
+        "classical_electron_radius": re_cm,  # cm
+        "avogadro": sc.N_A,  # 1/mol
+        "boltzmann": sc.k,  # J/K
+        "hbar_c": hbar_c_cm,  # MeV cm
+        "elementary_charge_fC": sc.e * 1e15,  # fC
+        "dedx_constant_K": 4 * math.pi * sc.N_A * re_cm ** 2 * me,  # MeV cm2/mol: K = 4 pi N_A r_e^2 m_e c^2
+        # eV, with rho in g/cm3: hbar omega_p = sqrt(4 pi N_e r_e^3) m_e c^2 / alpha, N_e = rho <Z/A> N_A
+        "plasma_energy_coefficient": math.sqrt(4 * math.pi * sc.N_A * re_cm ** 3) * me * 1e6 / alpha,
+        "scale_energy_Es": math.sqrt(4 * math.pi / alpha) * me,  # MeV: E_s = sqrt(4 pi / alpha) m_e c^2
+        "frank_tamm_per_eV_cm": alpha / (hbar_c_cm * 1e6),  # 1/(eV cm): alpha / (hbar c), for z = 1
+    })
 
 
 def constant(name: str) -> float:
-    """One physical constant from constants.csv."""
+    """One physical constant (see ``constants``)."""
     return constants()[name]
 
 
@@ -71,15 +98,52 @@ def elements() -> tuple[dict, ...]:
 
 @functools.cache
 def particles() -> MappingProxyType:
-    """Built-in particle species by key (particles.csv)."""
+    """Built-in particle species by key: names from particles.csv, masses (MeV) and integer charges from the
+    particle package by PDG id, and bare-nucleus masses from scipy.constants (CODATA) where given."""
+    from particle import Particle
+    from particle.particle import ParticleNotFound
     out = {}
     for n, row in _read_rows("particles.csv"):
+        try:
+            pdg = Particle.from_pdgid(int(row["pdgid"]))
+        except (ValueError, ParticleNotFound):
+            raise DataFileError(f"particles.csv, line {n}: no particle with PDG id {row['pdgid']!r}") from None
+        mass = _codata(f"{row['codata_mass']} mass energy equivalent in MeV") if row["codata_mass"] else pdg.mass
+        if mass is None or pdg.charge is None or pdg.charge != int(pdg.charge):
+            raise DataFileError(f"particles.csv, line {n}: the particle package has no mass or integer charge for "
+                                f"PDG id {row['pdgid']}")
         out[row["key"]] = MappingProxyType({
-            "key": row["key"], "label": row["label"], "mass": _number("particles.csv", n, row, "mass_MeV"),
-            "charge": int(_number("particles.csv", n, row, "charge")),
-            "aliases": tuple(a for a in row["aliases"].split(";") if a), "source": row["source"],
+            "key": row["key"], "label": row["label"], "mass": float(mass), "charge": int(pdg.charge),
+            "pdgid": int(row["pdgid"]), "aliases": tuple(a for a in row["aliases"].split(";") if a),
+            "source": row["source"],
         })
     return MappingProxyType(out)
+
+
+def _normal(name: str) -> str:
+    """A particle name as typed, folded for lookup: case, spaces, underscores and Greek letters ignored."""
+    name = name.strip().replace("\u2212", "-").replace("\u03c0", "pi").replace("\u03bc", "mu")
+    return "".join(name.split()).replace("_", "").lower()
+
+
+@functools.cache
+def _particle_index() -> dict[str, str]:
+    index: dict[str, str] = {}
+    for p in particles().values():
+        for name in (p["key"], p["label"], *p["aliases"]):
+            index.setdefault(_normal(name), p["key"])
+    return index
+
+
+def find_particle(name: str):
+    """The built-in species a typed name means ('pi-', 'K+', 'mu+', 'anti-proton', 'He-3', ...), or None."""
+    key = _particle_index().get(_normal(name)) if isinstance(name, str) else None
+    return particles()[key] if key else None
+
+
+def particle_names() -> list[str]:
+    """Every name a built-in species answers to, for suggestions."""
+    return sorted({n for p in particles().values() for n in (p["key"], p["label"], *p["aliases"])})
 
 
 @functools.cache

@@ -1,6 +1,16 @@
-"""Safe YAML loading that remembers the line of every key and list item.
+"""Safe YAML loading that remembers the line of every key and list item, with bounds no input can exceed.
 
-Only PyYAML's safe loader is used. A syntax error becomes a SpecError with its line and column.
+Only PyYAML's safe loader is used (libyaml's fast parser where installed). A syntax error becomes a SpecError
+with its line and column. Before anything is built, one pass over the parse events enforces three bounds, so
+that no spec can hang or crash the program (each is one error with its line, found within a fraction of a
+second):
+
+* ``MAX_BYTES``: a spec is a few kilobytes; 1 MiB is hundreds of times the largest realistic one.
+* ``MAX_DEPTH``: nesting depth. A spec nests about five levels; 50 leaves room and keeps every recursive
+  step far from Python's recursion limit.
+* ``MAX_VALUES``: the number of values after aliases are expanded. Aliases that repeat each other
+  ("a: &a [x, x], b: &b [*a, *a], ...") grow exponentially; 20 000 values is ten times a 300-layer stack with
+  long refractive-index tables. An alias to the structure that contains it (a loop) is refused as well.
 """
 from __future__ import annotations
 
@@ -10,29 +20,92 @@ from .errors import Problem, SpecError
 
 Path = tuple
 
+MAX_BYTES = 1 << 20
+MAX_DEPTH = 50
+MAX_VALUES = 20_000
+
+_Loader = getattr(yaml, "CSafeLoader", yaml.SafeLoader)
+_TOO_DEEP = f"nested more than {MAX_DEPTH} levels deep; a spec needs only a few levels"
+
 
 def load_with_lines(text: str, source: str = "spec") -> tuple[object, dict[Path, int]]:
     """Parse YAML text into plain Python data and a map from each key path to its 1-based line."""
-    loader = yaml.SafeLoader(text)
     lines: dict[Path, int] = {}
     try:
-        node = loader.get_single_node()
-        data = _construct(loader, node, (), lines) if node is not None else None
+        check_bounds(text)
+        loader = _Loader(text)
+        try:
+            node = loader.get_single_node()
+            data = _construct(loader, node, (), lines) if node is not None else None
+        finally:
+            loader.dispose()
     except yaml.MarkedYAMLError as exc:
         mark = exc.problem_mark or exc.context_mark
         line = mark.line + 1 if mark else None
+        if "nesting depth" in str(exc.problem):  # libyaml's own depth limit can trip before ours
+            raise SpecError([Problem("", line, _TOO_DEEP)], source) from None
         col = f", column {mark.column + 1}" if mark else ""
         raise SpecError([Problem("", line, f"YAML syntax error{col}: {exc.problem or exc.context}")], source) from None
+    except yaml.reader.ReaderError as exc:
+        line = text.count("\n", 0, exc.position) + 1 if isinstance(exc.position, int) else None
+        code = ord(exc.character) if isinstance(exc.character, str) else exc.character
+        raise SpecError([Problem("", line, f"character U+{code:04X} is not allowed in a YAML file "
+                                           "(a control character)")], source) from None
     except yaml.YAMLError as exc:
         raise SpecError([Problem("", None, f"YAML error: {exc}")], source) from None
     except SpecError as exc:
         raise SpecError(exc.problems, source) from None
-    finally:
-        loader.dispose()
     return data, lines
 
 
-def _construct(loader: yaml.SafeLoader, node, path: Path, lines: dict[Path, int]):
+def check_bounds(text: str) -> None:
+    """Refuse a spec over MAX_BYTES, nested deeper than MAX_DEPTH, or expanding to more than MAX_VALUES values.
+
+    One pass over the parse events (the parser keeps its own stack, so it cannot recurse too deep): each
+    collection's expanded size is summed as it closes, and an alias adds the size of what its anchor holds.
+    """
+    size = len(text.encode("utf-8", "surrogatepass"))
+    if size > MAX_BYTES:
+        raise SpecError([Problem("", None, f"the spec is larger than {MAX_BYTES // 2 ** 20} MiB, the most a spec "
+                                           "may be")])
+    anchors: dict[str, int] = {}
+    open_anchors: set[str] = set()
+    stack: list[list] = [[0, None]]  # per open collection: [expanded values so far, its anchor]
+    total = 0
+    for event in yaml.parse(text, Loader=_Loader):
+        line = event.start_mark.line + 1 if event.start_mark else None
+        if isinstance(event, yaml.CollectionStartEvent):
+            if len(stack) > MAX_DEPTH:
+                raise SpecError([Problem("", line, _TOO_DEEP)])
+            stack.append([1, event.anchor])
+            if event.anchor:
+                open_anchors.add(event.anchor)
+            continue
+        if isinstance(event, yaml.CollectionEndEvent):
+            count, anchor = stack.pop()
+            if anchor:
+                anchors[anchor] = count
+                open_anchors.discard(anchor)
+        elif isinstance(event, yaml.ScalarEvent):
+            count = 1
+            if event.anchor:
+                anchors[event.anchor] = 1
+        elif isinstance(event, yaml.AliasEvent):
+            if event.anchor in open_anchors:
+                raise SpecError([Problem("", line, f"the alias *{event.anchor} refers to the structure that "
+                                                   "contains it (a loop)")])
+            count = anchors.get(event.anchor, 1)
+        else:
+            continue
+        stack[-1][0] += count
+        total += count
+        if total > MAX_VALUES or stack[-1][0] > MAX_VALUES:
+            where = f" (the alias *{event.anchor} here)" if isinstance(event, yaml.AliasEvent) else ""
+            raise SpecError([Problem("", line, f"the spec expands to more than {MAX_VALUES} values{where}; "
+                                               "YAML aliases that repeat each other grow without bound")])
+
+
+def _construct(loader, node, path: Path, lines: dict[Path, int]):
     """Walk the composed node tree, building dicts/lists and recording lines by path."""
     lines.setdefault(path, node.start_mark.line + 1)
     if isinstance(node, yaml.MappingNode):
@@ -60,5 +133,3 @@ def dotted(path: Path) -> str:
     for p in path:
         out += f"[{p}]" if isinstance(p, int) else (f".{p}" if out else str(p))
     return out
-
-

@@ -14,7 +14,7 @@ RADIATOR = "  rad: {formula: SiO2, density: 0.2 g/cm3, refractive_index: 1.0}"
 
 CATALOGUE = [
     ("yaml syntax", "experiment: {name: x\nparticles: [muon\n",
-     ["line 2: YAML syntax error, column 10: expected ',' or '}', but got ':'"]),
+     ["line 2: YAML syntax error, column 10: did not find expected ',' or '}'"]),
     ("unknown key", BASE.replace("thickness: 300 um", "thicknes: 300 um, thickness: 300 um"),
      ["line 7: layers[0].thicknes: unknown key 'thicknes'; did you mean 'thickness'?"]),
     ("missing field", BASE.replace(", system: tracking}", "}"), ["line 7: layers[0]: missing required key 'system'"]),
@@ -50,6 +50,16 @@ CATALOGUE = [
     ("duplicate material", BASE.replace("  si: {library: silicon}", "  si: {library: silicon}\n  si: {library: iron}"),
      ["line 5: materials.si: duplicate key 'si'"]),
     ("not a mapping", "- just\n- a list\n", ["the spec is empty or not a mapping of sections"]),
+    ("alias bomb", BASE + "a0: &a0 [x, x, x, x, x, x, x, x, x, x]\n" + "".join(
+        f"a{i}: &a{i} [" + ", ".join([f"*a{i - 1}"] * 10) + "]\n" for i in range(1, 30)),
+     ["line 11: the spec expands to more than 20000 values; YAML aliases that repeat each other grow without bound"]),
+    ("alias loop", BASE + "loop: &l [1, *l]\n", ["line 8: the alias *l refers to the structure that contains it (a loop)"]),
+    ("deep nesting", BASE + "deep: " + "[" * 3000 + "]" * 3000 + "\n",
+     ["line 8: nested more than 50 levels deep; a spec needs only a few levels"]),
+    ("deep block nesting", BASE + "".join(" " * i + f"k{i}:\n" for i in range(60)),
+     ["line 58: nested more than 50 levels deep; a spec needs only a few levels"]),
+    ("control character", BASE + "x: \"\x07\"\n",
+     ["line 8: character U+0007 is not allowed in a YAML file (a control character)"]),
 ]
 
 
@@ -76,6 +86,11 @@ def test_bad_input(tmp_path, capsys, case, text, expected):
 def test_not_utf8(tmp_path, capsys):
     rc, out, err = run(tmp_path, raw=BASE.encode() + b"# caf\xe9\n", capsys=capsys)
     assert (rc, out.exists(), err) == (2, False, ["line 8: the file is not UTF-8 text"])
+
+
+def test_file_over_the_size_bound(tmp_path, capsys):
+    rc, out, err = run(tmp_path, raw=BASE.encode() + b"#" * (1 << 20) + b"\n", capsys=capsys)
+    assert (rc, out.exists(), err) == (2, False, ["the spec is larger than 1 MiB, the most a spec may be"])
 
 
 def test_empty_file(tmp_path, capsys):

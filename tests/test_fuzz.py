@@ -2,10 +2,12 @@
 project's own error type, never any other exception. 500 examples on validation, and fewer full computations."""
 import math
 
+import pytest
 import yaml
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
+from refgen.changes import compare, text_report
 from refgen.errors import RefgenError
 from refgen.report import make_report
 from refgen.spec import parse_spec
@@ -100,3 +102,68 @@ def test_mutated_small_spec_builds_or_fails_cleanly(m):
     kn = make_report(spec)["key_numbers"]
     for m_numbers in kn["materials"].values():
         assert math.isfinite(m_numbers["radiation_length_g_cm2"])
+
+
+# Hostile YAML shapes: aliases that repeat each other, deep nesting (flow and block), alias loops, merge keys
+# and control characters, anywhere in the demo spec. Each must end in the project's own error (never a
+# RecursionError, a hang or a MemoryError); the bounds are in refgen/yamlio.py.
+def alias_bomb(width, depth):
+    text = "a0: &a0 [" + ", ".join(["x"] * width) + "]\n"
+    for i in range(1, depth + 1):
+        text += f"a{i}: &a{i} [" + ", ".join([f"*a{i - 1}"] * width) + "]\n"
+    return text
+
+
+def merge_bomb(depth):
+    text = "m0: &m0 {k: 1, j: 2}\n"
+    for i in range(1, depth + 1):
+        text += f"m{i}: &m{i} {{<<: [*m{i - 1}], k{i}: [*m{i - 1}, *m{i - 1}, *m{i - 1}]}}\n"
+    return text
+
+
+def deep_flow(depth, opener):
+    closer = {"[": "]", "{a: ": "}"}[opener]
+    return "deep: " + opener * depth + "x" * (opener == "{a: ") + closer * depth + "\n"
+
+
+def deep_block(depth):
+    return "deep:\n" + "".join("  " * (i + 1) + ("- " if i % 2 else f"k{i}:") + "\n" for i in range(depth))
+
+
+HOSTILE = st.one_of(
+    st.builds(lambda w, extra: alias_bomb(w, math.ceil(math.log(2e4) / math.log(w)) + extra),
+              st.integers(2, 12), st.integers(0, 30)),
+    st.builds(merge_bomb, st.integers(10, 40)),
+    st.builds(deep_flow, st.integers(51, 20000), st.sampled_from(["[", "{a: "])),
+    st.builds(deep_block, st.integers(52, 400)),
+    st.just("loop: &l [1, {x: *l}]\n"),
+    st.builds(lambda c: f"x: \"{c}\"\n", st.sampled_from(["\x00", "\x07", "\x1b", "\ufffe"])),
+)
+
+
+@settings(max_examples=60, deadline=None, derandomize=True, suppress_health_check=[HealthCheck.too_slow])
+@given(HOSTILE, st.booleans())
+def test_hostile_yaml_shapes_fail_cleanly(shape, at_end):
+    text = DEMO.read_text() + shape if at_end else shape + DEMO.read_text()
+    with pytest.raises(RefgenError) as exc:
+        parse_spec(text, "fuzz.yaml")
+    assert any(word in str(exc.value) for word in ("values", "levels deep", "a loop", "not allowed", "syntax")), exc.value
+
+
+# `refgen compare` on arbitrary key-number trees: a report, never an exception.
+JSON = st.recursive(st.one_of(st.none(), st.booleans(), st.integers(-10, 10), st.floats(allow_nan=True),
+                              st.text(max_size=5)),
+                    lambda inner: st.one_of(st.lists(inner, max_size=4),
+                                            st.dictionaries(st.sampled_from(["name", "layer", "pair", "x_cm",
+                                                                             "transmission", "spec", "layers", "0.1",
+                                                                             "materials", "muon"]), inner, max_size=4)),
+                    max_leaves=20)
+
+
+@settings(max_examples=150, deadline=None, derandomize=True)
+@given(JSON, JSON)
+def test_compare_any_two_key_number_trees(old, new):
+    a = {"schema": "refgen-key-numbers/1", "body": old, "spec": old}
+    b = {"schema": "refgen-key-numbers/1", "body": new, "spec": new}
+    for tol in (None, 0.0, 0.5):
+        text_report(compare(a, b, tol), limit=5)

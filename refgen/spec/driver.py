@@ -13,7 +13,7 @@ import re
 
 from ..errors import Problem, SpecError
 from ..model import Spec
-from ..yamlio import load_with_lines
+from ..yamlio import MAX_BYTES, load_with_lines
 from .context import Context
 from .experiment import derived_photon_range, read_experiment, read_grid, read_particles, read_shower_energies
 from .field_section import read_field
@@ -76,9 +76,13 @@ def validate(data, lines: dict, source: str = "spec", strict: bool = False, text
 def read_text(path) -> str:
     """Read a spec file as UTF-8, turning an unreadable or non-UTF-8 file into a SpecError."""
     try:
-        raw = open(path, "rb").read()
+        with open(path, "rb") as f:
+            raw = f.read(MAX_BYTES + 1)  # never more than the bound, whatever the file is
     except OSError as exc:
         raise SpecError([Problem("", None, f"cannot read the spec: {exc.strerror}")], str(path)) from None
+    if len(raw) > MAX_BYTES:
+        raise SpecError([Problem("", None, f"the spec is larger than {MAX_BYTES // 2 ** 20} MiB, the most a spec "
+                                           "may be")], str(path))
     try:
         text = raw.decode("utf-8")
     except UnicodeDecodeError as exc:

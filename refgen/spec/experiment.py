@@ -38,16 +38,6 @@ def read_experiment(ctx: Context, data) -> Experiment:
     return Experiment(out["name"], out["revision"], out["summary"])
 
 
-def _species_index() -> dict[str, dict]:
-    """Built-in species by key and by every alias."""
-    index = {}
-    for p in datafiles.particles().values():
-        index[p["key"]] = p
-        for alias in p["aliases"]:
-            index.setdefault(alias, p)
-    return index
-
-
 def read_particles(ctx: Context, data) -> tuple[Species, ...]:
     """The required `particles:` list: built-in names or aliases, or custom {name: {mass, charge}} species."""
     value = data.get("particles")
@@ -57,15 +47,14 @@ def read_particles(ctx: Context, data) -> tuple[Species, ...]:
     if not isinstance(value, list) or not value:
         ctx.error(("particles",), "expected a non-empty list of species")
         return ()
-    index = _species_index()
     out: dict[str, Species] = {}
     for i, item in enumerate(value):
         path = ("particles", i)
         if isinstance(item, str):
-            p = index.get(item)
+            p = datafiles.find_particle(item)
             if p is None:
-                close = difflib.get_close_matches(item, list(index), n=1)
-                hint = f"; did you mean '{close[0]}'?" if close else ""
+                close = difflib.get_close_matches(item, datafiles.particle_names(), n=1)
+                hint = f"; did you mean '{close[0]}'?" if close else "; see `refgen particles`"
                 ctx.error(path, f"unknown particle '{item}'{hint}")
                 continue
             sp = Species(p["key"], p["label"], p["mass"], p["charge"], p["source"])

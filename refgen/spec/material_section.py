@@ -75,6 +75,11 @@ def _part(name: str, gas: bool):
     return fr, matlib.molar_mass(counts), matlib.z_over_a(fr), i_ev, rho, is_gas
 
 
+# Fractions within 0.1 % of 1 or 100 are rounding (e.g. 33.33 + 33.33 + 33.33, or 99.9999): normalised silently.
+# Up to 1 % off they are normalised with a warning; further off they are an error.
+FRACTION_ROUNDING = 1e-3
+
+
 def _fractions(ctx: Context, mixture, path) -> dict[str, float] | None:
     if not isinstance(mixture, dict) or not mixture:
         ctx.error(path, "expected a mapping of parts to fractions, e.g. {Ar: 70, CO2: 30}")
@@ -88,7 +93,7 @@ def _fractions(ctx: Context, mixture, path) -> dict[str, float] | None:
     total = sum(out.values())
     for scale in (1.0, 100.0):
         if abs(total - scale) <= 0.01 * scale:
-            if abs(total - scale) > 1e-9 * scale:
+            if abs(total - scale) > FRACTION_ROUNDING * scale:
                 ctx.warn(path, f"fractions add up to {total:g}, not {scale:g}; normalised")
             return {k: v / total for k, v in out.items()}
     ctx.error(path, f"fractions add up to {total:g}; they must add up to 1 or to 100 (within 1%)")
