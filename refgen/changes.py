@@ -23,11 +23,13 @@ Exit codes (used by ``refgen compare`` and ``refgen build --fail-on-change``): 0
 """
 from __future__ import annotations
 
+import dataclasses
 import json
 import math
 import re
 
 from .errors import RefgenError
+from .spec.layer_section import LAYER_OPTIONS
 
 NOISE_RELATIVE = 1e-9  # relative changes below this are floating-point rounding
 PROBABILITY_FLOOR = 1e-6  # probabilities, transmissions and fractions below this are negligible
@@ -75,6 +77,16 @@ def _slab_text(s) -> str:
     return f"{s.material} {s.thickness:.6g} cm" + (" (active)" if s.active else "")
 
 
+def _plain(value):
+    """A per-layer option as plain data: numbers and text as they are, a small dataclass as 'name=value, ...'."""
+    if isinstance(value, (int, float, str, bool)):
+        return value
+    if dataclasses.is_dataclass(value):
+        return ", ".join(f"{k}={v:.6g}" if isinstance(v, float) else f"{k}={v}"
+                         for k, v in dataclasses.asdict(value).items())
+    return str(value)
+
+
 def spec_summary(spec) -> dict:
     """The spec as defined (internal units), stored in key-numbers.json so that a baseline carries it.
     Fields that are not given are left out (never null)."""
@@ -96,6 +108,10 @@ def spec_summary(spec) -> dict:
         else:
             entry["material"] = layer.slabs[0].material
             entry["active"] = layer.slabs[0].active
+        for field, _ in LAYER_OPTIONS.values():  # the optional per-layer keys, whatever they are
+            value = getattr(layer, field, None)
+            if value is not None:
+                entry[field] = _plain(value)
         layers.append(entry)
     return {
         "materials": materials,
@@ -109,7 +125,9 @@ def spec_summary(spec) -> dict:
                                        f"{spec.momentum.points} points",
                      "photon_energy_MeV": f"{spec.photon_energy.start:.6g} to {spec.photon_energy.stop:.6g}, "
                                           f"{spec.photon_energy.points} points",
-                     "shower_energies_GeV": ", ".join(f"{e / 1e3:g}" for e in spec.shower_energies)},
+                     "shower_energies_GeV": ", ".join(f"{e / 1e3:g}" for e in spec.shower_energies),
+                     "magnetic_field": "; ".join(f"{r.strength_tesla:g} T from {r.from_layer} to {r.to_layer}"
+                                                 for r in getattr(spec, "field", ())) or "none"},
     }
 
 

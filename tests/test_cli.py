@@ -88,3 +88,12 @@ def test_output_into_a_closed_pipe_ends_quietly(command):
 def test_mixture_warning_is_silent_for_rounding(fractions, warned):
     spec = parse_spec(BASE.replace("{Ar: 70, CO2: 30}", fractions))
     assert bool(spec.warnings) == warned, spec.warnings
+
+
+def test_every_package_goes_into_the_wheel():
+    # the README tells experiments to install from a built wheel: a package missing from pyproject's list
+    # works in an editable install and breaks in the wheel
+    import tomllib
+    listed = set(tomllib.loads((ROOT / "pyproject.toml").read_text())["tool"]["setuptools"]["packages"])
+    found = {".".join(p.parent.relative_to(ROOT).parts) for p in (ROOT / "refgen").rglob("__init__.py")}
+    assert found <= listed, sorted(found - listed)
