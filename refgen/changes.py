@@ -121,11 +121,11 @@ def spec_summary(spec) -> dict:
                                 "detection_efficiency": r.detection_efficiency, "mode": r.mode}
                       | ({"angle_resolution_mrad": r.angle_resolution_mrad} if r.angle_resolution_mrad else {})
                       for r in spec.radiators},
-        "settings": {"momentum_GeV_c": f"{spec.momentum.start / 1e3:.6g} to {spec.momentum.stop / 1e3:.6g}, "
-                                       f"{spec.momentum.points} points",
-                     "photon_energy_MeV": f"{spec.photon_energy.start:.6g} to {spec.photon_energy.stop:.6g}, "
-                                          f"{spec.photon_energy.points} points",
-                     "shower_energies_GeV": ", ".join(f"{e / 1e3:g}" for e in spec.shower_energies),
+        "settings": {"momentum": f"{spec.momentum.start / 1e3:.6g}-{spec.momentum.stop / 1e3:.6g} GeV/c, "
+                                 f"{spec.momentum.points} points",
+                     "photon_energy": f"{spec.photon_energy.start:.6g}-{spec.photon_energy.stop:.6g} MeV, "
+                                      f"{spec.photon_energy.points} points",
+                     "shower_energies": ", ".join(f"{e / 1e3:g}" for e in spec.shower_energies) + " GeV",
                      "magnetic_field": "; ".join(f"{r.strength_tesla:g} T from {r.from_layer} to {r.to_layer}"
                                                  for r in getattr(spec, "field", ())) or "none"},
     }
@@ -514,7 +514,7 @@ def compare_specs(old: dict | None, new: dict | None) -> dict | None:
             elif name in b and not _same(a[name], b[name]):
                 label, unit = split_unit(name)
                 changed.append({"kind": kind, "name": label, "fields": [
-                    {"field": "value", "old": format_value(a[name], unit), "new": format_value(b[name], unit)}]})
+                    {"field": "", "old": format_value(a[name], unit), "new": format_value(b[name], unit)}]})
     order_old = [n for n in _items(old.get("layers")) if n in _items(new.get("layers"))]
     order_new = [n for n in _items(new.get("layers")) if n in _items(old.get("layers"))]
     reordered = order_old != order_new
@@ -547,7 +547,7 @@ def text_report(changes: dict, limit: int | None = None) -> list[str]:
         lines = [f"  {i['kind']} {i['name']}: added ({i['what']})" for i in spec["added"]]
         lines += [f"  {i['kind']} {i['name']}: removed" for i in spec["removed"]]
         for c in spec["changed"]:
-            lines.append(f"  {c['kind']} {c['name']}: " + "; ".join(f"{f['field']} {f['old']} -> {f['new']}"
+            lines.append(f"  {c['kind']} {c['name']}: " + "; ".join(f"{f['field']} {f['old']} -> {f['new']}".strip()
                                                                      for f in c["fields"]))
         if spec["layers_reordered"]:
             lines.append("  the order of the layers changed")
