@@ -64,8 +64,8 @@ def write_site(files: dict[str, bytes], out: Path, force: bool) -> None:
 
 
 def build(spec_path, out, *, force: bool = False, strict: bool = False, build_date: str | None = None,
-          baseline=None, tolerance: float | None = None, single_file: bool = False, workers: int | None = None, cache: bool = True,
-          progress=None) -> dict:
+          baseline=None, tolerance: float | None = None, single_file: bool = False, workers: int | None = None,
+          cache: bool = True, progress=None) -> dict:
     """Build the handbook for one spec into ``out``. Returns the report (with ``changes`` when a baseline
     key-numbers.json is given; moves beyond ``tolerance`` are listed first)."""
     say = progress or (lambda msg: None)

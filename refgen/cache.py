@@ -25,7 +25,7 @@ import numpy as np
 
 PACKAGE_ROOT = Path(__file__).resolve().parent
 # Libraries whose data or numerics enter the physics results: a new version invalidates the physics cache.
-PHYSICS_LIBRARIES = ("numpy", "scipy", "xraydb", "periodictable", "pint")
+PHYSICS_LIBRARIES = ("numpy", "scipy", "xraydb", "periodictable", "pint", "particle")
 
 
 def cache_root() -> Path:
