@@ -261,12 +261,18 @@ def _state_from_density(ctx: Context, name, value, kind, state, density, base, p
                              f"the given state is used")
         return state, base
     implied = matlib.state_from_density(density, base.is_gas)
-    if (implied == "gas") != base.is_gas:
-        ctx.notes.append(f"material '{name}': treated as {'a gas' if implied == 'gas' else implied} from its density "
-                         f"{density:.4g} g/cm3 (its elements alone suggest {'a gas' if base.is_gas else 'a condensed material'}); "
-                         f"give 'state:' to override")
-        base = _material_base(Context(ctx.lines, [], [], []), name, value, kind, implied, path) or base
-    return implied, base
+    if (implied == "gas") == base.is_gas:
+        return implied, base
+    rebuilt = _material_base(Context(ctx.lines, [], [], []), name, value, kind, implied, path)
+    if rebuilt is None:  # the composition cannot be built in that state (e.g. a condensed volume mixture of gases)
+        ctx.notes.append(f"material '{name}': its density {density:.4g} g/cm3 suggests "
+                         f"{'a gas' if implied == 'gas' else 'a condensed material'}, but it is kept in its usual state; "
+                         f"give 'state:' to choose")
+        return None, base
+    ctx.notes.append(f"material '{name}': treated as {'a gas' if implied == 'gas' else implied} from its density "
+                     f"{density:.4g} g/cm3 (its elements alone suggest {'a gas' if base.is_gas else 'a condensed material'}); "
+                     f"give 'state:' to override")
+    return implied, rebuilt
 
 
 @dataclass
