@@ -383,6 +383,7 @@ def compare(old: dict, new: dict, tolerance: float | None = None) -> dict:
     spec = compare_specs(old.get("spec"), new.get("spec"))
     out = {
         "tolerance": tolerance,
+        "tolerance_text": None if tolerance is None else f"{tolerance * 100:g} %",
         "spec": spec,
         "beyond": beyond,
         "within": within,
@@ -553,8 +554,7 @@ def text_report(changes: dict, limit: int | None = None) -> list[str]:
             lines.append("  the order of the layers changed")
         out.append("Spec changes:" if lines else "Spec changes: none.")
         out += lines
-    tol = changes["tolerance"]
-    tol_text = f"by more than {tol * 100:.4g} %" if tol else "(any move)"
+    tol_text = f"by more than {changes['tolerance_text']}" if changes["tolerance"] else "(any move)"
     rows = changes["beyond"]
     out.append(f"Moved {tol_text}: {len(rows)}" + ("" if rows else "."))
     out += _row_lines(rows, limit)
