@@ -26,7 +26,7 @@ PINS = [
     ("layers.hadron-calorimeter.scintillator.mip_photons", 9839.536171006459),
     ("reach_momentum_GeV_c.muon.muon-chamber-2", 2.7175653565290094),
     ("reach_momentum_GeV_c.proton.crystal-calorimeter", 0.31482546672605166),
-    ("tracking_volume.photon_conversion_probability_at_1_GeV", 0.017519404490371593),
+    ("tracking_volume.photon_conversion_probability_at_1_GeV", 0.017525848401094498),
     ("radiators.threshold-aerogel.threshold_momentum_GeV_c.kaon", 2.1941200000000016),
     ("radiators.gas-radiator.photoelectrons_at_beta_1", 21.996266627968975),
     ("calorimeters.em-calorimeter.shower.10.containment_fraction", 0.9975659614796911),

@@ -114,7 +114,11 @@ def tsai_pair(e, z: int):
     dsigma/dx = 4 alpha r_e^2 { [x^2 + (1-x)^2] [Z^2 (phi1/4 - ln Z/3 - f) + Z (psi1/4 - 2 ln Z/3)]
                 + (2/3) x (1-x) [Z^2 (phi2/4 - ln Z/3 - f) + Z (psi2/4 - 2 ln Z/3)] }
     gamma = 100 (m/k) / (x (1-x) Z^1/3), eps = 100 (m/k) / (x (1-x) Z^2/3); x from m/k to 1 - m/k.
-    For Z <= 4 the complete-screening logarithms of Tsai's Table B.2 replace the Thomas-Fermi constants.
+    For Z <= 4 the complete-screening logarithms of Tsai's Table B.2 replace the Thomas-Fermi constants. The
+    shift is faded in with the Lorentzian screening factors of Tsai's own fits, 1/(1 + (0.55846 gamma)^2) and
+    1/(1 + (3.621 eps)^2), so it acts only where screening does: the complete-screening limit is Tsai's, and the
+    unscreened limit stays the plain Bethe-Heitler one (a constant shift made the electron-field term of H and He
+    vanish below about 6 MeV).
     """
     me = electron_mass()
     alpha = datafiles.constant("fine_structure")
@@ -138,6 +142,8 @@ def tsai_pair(e, z: int):
     # light elements: shift the Thomas-Fermi constants to Tsai's tabulated complete-screening logarithms
     dphi = 4.0 * (l_rad - (math.log(184.15) - lnz / 3.0)) if z <= 4 else 0.0
     dpsi = 4.0 * (l_rad_prime - (math.log(1194.0) - 2.0 * lnz / 3.0)) if z <= 4 else 0.0
+    dphi = dphi / (1.0 + (0.55846 * gamma) ** 2)
+    dpsi = dpsi / (1.0 + (3.621 * eps) ** 2)
     a1 = x ** 2 + (1.0 - x) ** 2
     a2 = 2.0 / 3.0 * xx
     nuc = z ** 2 * (a1 * ((phi1 + dphi) / 4.0 - lnz / 3.0 - f) + a2 * ((phi2 + dphi) / 4.0 - lnz / 3.0 - f))
