@@ -124,7 +124,8 @@ def photon_map(spec, materials: dict) -> dict:
                      for k in ("photoelectric_compton_crossover_MeV", "compton_pair_crossover_MeV") if ph[k]]
         rows.append({"material": name, "layers": [x["layer"] for x in layers_of(spec, name)],
                      "bands": _clip_bands(ph["dominance_bands"], lo, hi), "crossovers": crossings})
-    return {"range_MeV": [lo, hi], "rows": rows, "marks": energies_of_interest(spec), "valid_MeV": list(VALID_MEV)}
+    return {"range_MeV": [lo, hi], "range_text": f"{energy_text(lo)} to {energy_text(hi)}", "rows": rows,
+            "marks": energies_of_interest(spec), "valid_MeV": list(VALID_MEV)}
 
 
 def photon_figure_data(spec, name: str, numbers: dict, curves: dict) -> dict:

@@ -205,6 +205,11 @@ def photon_process_map(data: dict) -> bytes:
                     ax.plot([c["MeV"], c["MeV"]], [y - 0.34, y + 0.34], color="#1d252c", linewidth=1.3, zorder=4)
                     ax.annotate(c["label"], (c["MeV"], y - 0.3), xytext=(2, 0), textcoords="offset points",
                                 fontsize=6.5, color="#1d252c", va="bottom", zorder=5)
+                else:  # named at the edge it lies beyond
+                    below = c["MeV"] < lo
+                    ax.annotate(f"◂ {c['label']}" if below else f"{c['label']} ▸", (lo if below else hi, y - 0.3),
+                                xytext=(2 if below else -2, 0), textcoords="offset points", ha="left" if below else "right",
+                                fontsize=6.5, color="#1d252c", va="bottom", zorder=5)
         _outside_validity(ax, lo, hi, data["valid_MeV"], False)
         _energy_marks(ax, data["marks"], "above")
         ax.set_yticks(range(len(rows)))
