@@ -148,6 +148,9 @@ def _run(args) -> int:
             return _particles()
         if args.command == "keys":
             return _keys()
+        if args.command in ("check", "build"):
+            from .yamlio import precheck_file
+            precheck_file(args.spec or demo_spec_path(), str(args.spec or demo_spec_path()))
         if args.command == "check":
             from .spec import load_spec
             spec = load_spec(args.spec, strict=args.strict)

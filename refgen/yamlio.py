@@ -42,8 +42,6 @@ def load_with_lines(text: str, source: str = "spec") -> tuple[object, dict[Path,
     except yaml.MarkedYAMLError as exc:
         mark = exc.problem_mark or exc.context_mark
         line = mark.line + 1 if mark else None
-        if "nesting depth" in str(exc.problem):  # libyaml's own depth limit can trip before ours
-            raise SpecError([Problem("", line, _TOO_DEEP)], source) from None
         col = f", column {mark.column + 1}" if mark else ""
         raise SpecError([Problem("", line, f"YAML syntax error{col}: {exc.problem or exc.context}")], source) from None
     except yaml.reader.ReaderError as exc:
@@ -58,6 +56,24 @@ def load_with_lines(text: str, source: str = "spec") -> tuple[object, dict[Path,
     return data, lines
 
 
+def precheck_file(path, source: str) -> None:
+    """Apply the bounds to a spec file before anything heavy is imported, so that a hostile spec is refused
+    at once. Only bound violations are raised here; every other problem (unreadable file, bad UTF-8, a
+    syntax error) is left to the full load, which reports it with the rest."""
+    try:
+        with open(path, "rb") as f:
+            raw = f.read(MAX_BYTES + 1)
+        text = raw.decode("utf-8")
+    except (OSError, UnicodeDecodeError):
+        return
+    try:
+        check_bounds(text)
+    except SpecError as exc:
+        raise SpecError(exc.problems, source) from None
+    except yaml.YAMLError:
+        return
+
+
 def check_bounds(text: str) -> None:
     """Refuse a spec over MAX_BYTES, nested deeper than MAX_DEPTH, or expanding to more than MAX_VALUES values.
 
@@ -68,6 +84,17 @@ def check_bounds(text: str) -> None:
     if size > MAX_BYTES:
         raise SpecError([Problem("", None, f"the spec is larger than {MAX_BYTES // 2 ** 20} MiB, the most a spec "
                                            "may be")])
+    try:
+        _walk_events(text)
+    except yaml.MarkedYAMLError as exc:
+        if "nesting depth" not in str(exc.problem):  # libyaml's own depth limit can trip before ours
+            raise
+        mark = exc.problem_mark or exc.context_mark
+        raise SpecError([Problem("", mark.line + 1 if mark else None, _TOO_DEEP)]) from None
+
+
+def _walk_events(text: str) -> None:
+    """The event pass of ``check_bounds``."""
     anchors: dict[str, int] = {}
     open_anchors: set[str] = set()
     stack: list[list] = [[0, None]]  # per open collection: [expanded values so far, its anchor]
