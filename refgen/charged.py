@@ -12,7 +12,8 @@ from .physics.kinematics import beta_gamma, electron_mass, kinetic_energy, momen
 from .physics.ranges import kinetic_to_cross, range_table
 from .physics.scattering import highland_theta0, highland_valid
 from .physics.stopping import BETHE_VALID_MIN_BG, bethe_stopping, mass_stopping_power, muon_collision_stopping
-from .physics.straggling import landau_fwhm, most_probable_loss, restricted_stopping, vavilov_kappa
+from .physics.straggling import (LANDAU_REGIME_KAPPA, landau_fwhm, loss_distribution, most_probable_loss,
+                                 restricted_stopping, vavilov_kappa)
 
 ELECTRON_T_LOW = 0.01  # MeV: lower end of the Rohrlich-Carlson form's validity (ICRU 37)
 RESTRICTED_CUT_MEV = 0.1  # delta-ray cut for the restricted energy loss shown per layer
@@ -145,8 +146,11 @@ def layer_signals(spec, layer, media, x0s, min_ion) -> dict:
     bg, dedx_min = min_ion[slab.material]
     x = slab.thickness * m.density
     mean = dedx_min * x
-    mpv = float(most_probable_loss(bg, 1, medium, x))
     kappa = float(vavilov_kappa(bg, MUON_MASS, 1, medium, x))
+    if kappa < LANDAU_REGIME_KAPPA:
+        mpv = float(most_probable_loss(bg, 1, medium, x))
+    else:  # Vavilov regime: the mode of Vavilov's distribution (the Landau form drifts to -1 % by kappa = 0.1)
+        mpv = loss_distribution(bg, MUON_MASS, 1, medium, x, mean).mode
     w_ev = m.pair_energy_eV
     thick = kappa >= VAVILOV_GAUSSIAN_KAPPA
     fwhm = float(landau_fwhm(bg, 1, medium, x))

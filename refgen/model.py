@@ -133,6 +133,19 @@ class Slab:
 
 
 @dataclass(frozen=True)
+class Threshold:
+    """A readout threshold on a sensitive layer: as the spec wrote it (``value`` in ``unit``: an energy such as keV,
+    or a charge such as fC or e) and as the energy deposit it stands for, ``energy`` in MeV.
+    ``units_per_MeV`` converts any deposit (MeV) back to the spec's unit (for a charge, through the material's
+    pair energy)."""
+
+    value: float
+    unit: str
+    energy: float
+    units_per_MeV: float
+
+
+@dataclass(frozen=True)
 class Layer:
     """A layer of the stack: a single slab, or a cell of slabs repeated ``repeat`` times (sampling structure)."""
 
@@ -142,6 +155,7 @@ class Layer:
     repeat: int = 1
     scintillator: dict | None = None
     resolution_cm: float | None = None  # point resolution in the bending direction of a measuring layer, cm
+    threshold: Threshold | None = None
 
     @property
     def is_sampling(self) -> bool:

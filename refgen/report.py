@@ -9,7 +9,7 @@ from pathlib import Path
 
 import numpy as np
 
-from . import __version__, attenuation, calorimetry, charged, material_card, radiators
+from . import __version__, attenuation, calorimetry, charged, material_card, radiators, signals
 from .cache import cached_map
 from .changes import spec_summary
 from .model import SYSTEM_KINDS, Spec
@@ -142,6 +142,8 @@ def make_report(spec: Spec, progress=None, cache_dir=None, workers: int = 1) -> 
     say("computing: photons")
     layer_coeffs = {name: r["layer_coeffs"] for name, r in per_material.items()}
     layers, z = [], 0.0
+    sensitive = signals.signal_layers(spec)
+    signal_tables, signal_figures = {}, {}
     for layer in spec.layers:
         entry = layer_numbers(spec, layer, z)
         entry.update(charged.layer_signals(spec, layer, media, x0s, min_ion))
@@ -151,6 +153,9 @@ def make_report(spec: Spec, progress=None, cache_dir=None, workers: int = 1) -> 
         entry["photon_conversion_probability_at_1_GeV"] = entry["photon"]["conversion_probability"][-1]
         if layer.is_sampling:
             entry["effective_cell"] = calorimetry.effective_cell(spec, layer, materials)
+        if layer in sensitive:
+            numbers, signal_tables[layer.name], signal_figures[layer.name] = signals.layer_signal(spec, layer, media, min_ion)
+            entry.update(numbers)
         scint = radiators.scintillator_numbers(spec, layer, entry, media.__getitem__)
         if scint is not None:
             entry["scintillator"] = scint
@@ -198,6 +203,7 @@ def make_report(spec: Spec, progress=None, cache_dir=None, workers: int = 1) -> 
     for name, c in radiator_curves.items():
         cols = list(c)
         csv_tables[f"data/cherenkov/{layer_slugs[name]}.csv"] = (cols, [list(map(float, r)) for r in zip(*(c[k] for k in cols))])
+    csv_tables.update({f"data/straggling/{layer_slugs[name]}.csv": t for name, t in signal_tables.items()})
     names = [l["name"] for l in layers]
     scattering = charged.tracking_scattering_curves(spec, x0s)
     cols = list(scattering)
@@ -243,6 +249,7 @@ def make_report(spec: Spec, progress=None, cache_dir=None, workers: int = 1) -> 
         "photon_tables": {name: attenuation.photon_table(spec, m) for name, m in spec.materials.items()},
         "photon_process_words": attenuation.PROCESS_WORDS,
         "material_cards": {name: material_card.card_groups(materials[name]) for name in materials},
+        "signal_figures": signal_figures,
         "shower_profiles": shower_profiles,
         "tracking_scattering_curves": scattering,
         "shower_energy_keys": [f"{e / 1e3:g}" for e in spec.shower_energies],
