@@ -23,12 +23,14 @@ INTERNAL_UNITS = {
     "areal_density": "g/cm**2",
     "angle": "rad",
     "magnetic_field": "T",
+    "charge": "fC",
 }
 EXAMPLES = {
     "length": "150 um, 1.2 cm", "energy": "1 GeV, 3.6 eV", "momentum": "50 MeV/c, 2 GeV/c",
     "mass_energy": "1115.7 MeV", "density": "8.28 g/cm3", "temperature": "20 degC, 293 K",
     "pressure": "1 atm, 1013 mbar", "kB": "0.0126 cm/MeV", "areal_density": "10 g/cm2", "angle": "2 mrad",
     "magnetic_field": "1.5 T, 500 mT",
+    "charge": "0.8 fC, 3000 e",
 }
 
 _NUMBER_UNIT = re.compile(r"^\s*([-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?)\s*(.*?)\s*$")

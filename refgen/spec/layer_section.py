@@ -15,6 +15,7 @@ from typing import Callable
 
 from ..model import SYSTEM_KINDS, Layer, Material, Slab
 from .context import Context, name_ok
+from .threshold import read_threshold
 
 LAYER_KEYS = {
     "name": "Layer name (required, unique).",
@@ -25,6 +26,7 @@ LAYER_KEYS = {
     "repeat": "Number of cells in a sampling structure.",
     "cell": "The slabs of one cell: [{material, thickness, active}, ...].",
     "resolution": "Point resolution in the bending direction, with unit, e.g. 12 um: the layer measures the track (single-slab, active layers only).",
+    "threshold": "Readout threshold of a sensitive single-slab layer: an energy (25 keV) or a charge (0.8 fC, 3000 e; needs the material's pair_energy).",
 }
 SLAB_KEYS = {"material": "Material name (required).", "thickness": "Thickness with unit (required).",
              "active": "true for a sensitive slab."}
@@ -45,6 +47,7 @@ OptionChecker = Callable[[Context, object, tuple, Layer, dict[str, Material]], o
 # spec key -> (model.Layer field, checker); applied in this order after the layer's geometry is valid.
 LAYER_OPTIONS: dict[str, tuple[str, OptionChecker]] = {
     "resolution": ("resolution_cm", _resolution),
+    "threshold": ("threshold", read_threshold),
 }
 
 
