@@ -318,6 +318,41 @@ def windows_figure(windows: list[dict], labels: dict, p_range: tuple[float, floa
         return to_svg(fig)
 
 
+def straggling_figure(energy_kev, density, mode_kev: float, threshold: dict | None, kev_per_fc: float | None,
+                      model: str) -> bytes:
+    """Energy-loss distribution of a minimum-ionising particle in one layer, with the most probable loss, the
+    readout threshold (the part above it shaded) and the highest threshold keeping 99 % marked; a charge axis on
+    top where the pair energy is known. threshold: {"keV", "label", "efficiency", "keep99_keV"} or None."""
+    plt = _plt()
+    with plt.rc_context(STYLE):
+        fig, ax = plt.subplots(figsize=(6.4, 3.6))
+        e, p = np.asarray(energy_kev), np.asarray(density)
+        ax.plot(e, p, label=f"{model.capitalize()} distribution, widened for atomic binding", **line_style(0))
+        top = float(p.max())
+        ax.axvline(mode_kev, color="#555555", linewidth=0.8, linestyle=":")
+        ax.annotate(f"most probable {mode_kev:.3g} keV", (mode_kev, top * 1.02), xytext=(3, 0), textcoords="offset points",
+                    fontsize=7.5, color="#444444", va="bottom")
+        if threshold:
+            t = threshold["keV"]
+            above = e >= t
+            ax.fill_between(e[above], 0, p[above], color=PALETTE[0], alpha=0.15, linewidth=0,
+                            label="above threshold: " + ("> 99.99 %" if threshold["efficiency"] > 0.9999
+                                                         else f"{100 * threshold['efficiency']:.4g} %"))
+            ax.axvline(t, color=PALETTE[1], linewidth=1.4)
+            ax.annotate(f"threshold {threshold['label']}", (t, top * 0.55), xytext=(4, 0), textcoords="offset points",
+                        fontsize=7.5, color=PALETTE[1])
+            ax.axvline(threshold["keep99_keV"], color=PALETTE[2], linewidth=1.0, linestyle="--",
+                        label=f"highest threshold keeping 99 %: {threshold['keep99_keV']:.3g} keV")
+        ax.set_xlim(0, float(e[-1]))
+        ax.set_ylim(0, top * 1.15)
+        ax.set_xlabel("energy deposited (keV)")
+        ax.set_ylabel("probability per keV")
+        if kev_per_fc:
+            sec = ax.secondary_xaxis("top", functions=(lambda x: x / kev_per_fc, lambda q: q * kev_per_fc))
+            sec.set_xlabel("charge freed (fC)")
+        ax.legend(fontsize=7.5, loc="upper right")
+        return to_svg(fig)
+
 
 @functools.cache
 def _code_version() -> bytes:

@@ -88,6 +88,8 @@ def downloads(report: dict) -> list[dict]:
             what = f"energy loss and CSDA range of {sp} in {mat}"
         elif path.startswith("data/photon/"):
             what = f"photon mass attenuation by process in {path[len('data/photon/'):-4]}"
+        elif path.startswith("data/straggling/"):
+            what = f"energy-loss distribution of a minimum-ionising muon in layer {path[len('data/straggling/'):-4]}"
         elif path.startswith("data/cherenkov/"):
             what = f"Cherenkov angle and photoelectrons per species in {path[len('data/cherenkov/'):-4]}"
         else:
@@ -102,6 +104,7 @@ def search_index(kn: dict, report: dict) -> list[dict]:
         {"t": "Layer stack", "u": "index.html", "k": "stack layers overview front page"},
         {"t": "Quick reference", "u": "quickref.html", "k": "shift crew summary print"},
         {"t": "Charged particles", "u": "charged.html", "k": "reach momentum signals landau most probable carriers scattering theta0 scintillator birks"},
+        {"t": "Thin-sensor signals", "u": "signals.html", "k": "threshold efficiency landau vavilov straggling distribution fC charge angle"},
         {"t": "Material budget", "u": "budget.html", "k": "radiation length interaction length survival conversion x/X0"},
         {"t": "Photons", "u": "photons.html", "k": "photoabsorption photoelectric compton rayleigh pair conversion transmission attenuation crossover map"},
         {"t": "Methods and validity", "u": "methods.html", "k": "formula reference validity accuracy caution"},

@@ -48,6 +48,18 @@ def format_number(value, digits: int = 4) -> str:
     return f"{mantissa}\u00d710<sup>{mag}</sup>"
 
 
+def format_percent(fraction) -> str:
+    """A fraction as a percentage to 4 significant figures; within 1e-4 of 0 or 1 as '< 0.01 %' or '> 99.99 %'
+    (a model's fraction is never shown as exactly 100 %)."""
+    if fraction is None:
+        return "—"
+    if fraction > 1.0 - 1e-4:
+        return "&gt; 99.99 %"
+    if 0.0 < fraction < 1e-4:
+        return "&lt; 0.01 %"
+    return f"{100.0 * fraction:.4g} %"
+
+
 def species_html(label: str) -> str:
     """HTML for a species label: 'pi+' -> π<sup>+</sup>, 'mu-' -> μ<sup>−</sup>, 'He-3' -> <sup>3</sup>He."""
     greek = {"pi": "π", "mu": "μ", "alpha": "α", "e": "e", "K": "K", "p": "p", "d": "d", "t": "t"}
@@ -80,6 +92,7 @@ def environment(cache_dir=None) -> jinja2.Environment:
                              undefined=jinja2.StrictUndefined, trim_blocks=True, lstrip_blocks=True)
     env.filters["num"] = lambda v, d=4: Markup(format_number(v, d))
     env.filters["species"] = lambda v: Markup(species_html(v))
+    env.filters["percent"] = lambda v: Markup(format_percent(v))
     return env
 
 
@@ -183,6 +196,13 @@ def radiator_figures(report: dict) -> dict[str, tuple]:
     return out
 
 
+def signal_figures(report: dict) -> dict[str, tuple]:
+    """One energy-loss distribution figure per sensitive single-slab layer."""
+    return {f"fig/straggling-{report['layer_slugs'][name]}.svg":
+            _job("straggling_figure", f["energy_keV"], f["density_per_keV"], f["mode_keV"], f["threshold"], f["keV_per_fC"],
+                 f["model"]) for name, f in report["signal_figures"].items()}
+
+
 def render_site(report: dict, build_info: dict, single: bool = False, workers: int = 1,
                 cache_dir=None) -> dict[str, bytes]:
     """Every file of the site, in memory: pages, key-numbers.json and static assets. The figures are drawn in
@@ -199,6 +219,7 @@ def render_site(report: dict, build_info: dict, single: bool = False, workers: i
     jobs.update(calorimetry_figures(report))
     jobs.update(photon_figures(report))
     jobs.update(radiator_figures(report))
+    jobs.update(signal_figures(report))
     drawer = Drawer(jobs, workers=workers, cache_dir=cache_dir)
     env = environment(Path(cache_dir).parent / "templates" if cache_dir is not None else None)
     kn = report["key_numbers"]
@@ -218,6 +239,8 @@ def render_site(report: dict, build_info: dict, single: bool = False, workers: i
                                                    "files": handbook.downloads(report)}),
              ("charged.html", "charged.html", {"title": "Charged particles in the stack", "page": "charged"}),
              ("budget.html", "budget.html", {"title": "Material budget", "page": "budget"}),
+             ("signals.html", "signals.html", {"title": "Thin-sensor signals", "page": "signals",
+                                               "layers": [l for l in kn["layers"] if "straggling" in l]}),
              ("photons.html", "photons.html", {"title": "Photons", "page": "photons"})]
     if report["has_changes"]:
         pages.append(("changes.html", "changes.html", {"title": "Changes since the baseline", "page": "changes",

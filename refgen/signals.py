@@ -19,6 +19,9 @@ from .physics.straggling import (binding_variance, fraction_above, fwhm, landau_
 ANGLES_DEG = (0, 10, 20, 30, 40, 50, 60)
 KEEP_FRACTION = 0.99
 CSV_POINTS = 401
+# refgen's own flag: when the binding Gaussian is wider than the Landau half-width (sigma > 2 xi) the shape is mostly
+# that Gaussian, which Shulek's correction does not support; its low-side tail (low thresholds) is then rough.
+BINDING_DOMINANT_XI = 2.0
 
 
 def shell_table(material) -> tuple[np.ndarray, np.ndarray]:
@@ -51,15 +54,17 @@ def _charge_fc(energy_mev, w_ev):
     return np.asarray(energy_mev) * 1e6 / w_ev * FC_PER_CARRIER
 
 
-def csv_rows(dist, w_ev, threshold_mev: float | None) -> tuple[list[str], list[list]]:
-    """data/straggling/<layer>.csv: the density on a display grid from 0 to well past the peak (and past the
-    threshold), probability per keV, with the charge where the pair energy is known."""
+def display_grid(dist, threshold_mev: float | None) -> tuple[np.ndarray, np.ndarray]:
+    """The density (1/keV) on the grid shown and tabulated (keV): from 0 to well past the peak and the threshold."""
     top = max(dist.mode + 8.0 * fwhm(dist), 1.3 * (threshold_mev or 0.0))
     e = np.linspace(0.0, top, CSV_POINTS)
-    p = np.interp(e, dist.energy, dist.density, left=0.0, right=0.0) * 1e-3
+    return e * 1e3, np.interp(e, dist.energy, dist.density, left=0.0, right=0.0) * 1e-3
+
+
+def csv_rows(e_kev, p_kev, w_ev) -> tuple[list[str], list[list]]:
+    """data/straggling/<layer>.csv: energy_keV, probability_per_keV and, where the pair energy is known, charge_fC."""
     cols = ["energy_keV", "probability_per_keV"] + (["charge_fC"] if w_ev else [])
-    rows = [[float(a * 1e3), float(b)] + ([float(_charge_fc(a, w_ev))] if w_ev else []) for a, b in zip(e, p)]
-    return cols, rows
+    return cols, [[float(a), float(b)] + ([float(_charge_fc(a * 1e-3, w_ev))] if w_ev else []) for a, b in zip(e_kev, p_kev)]
 
 
 def layer_signal(spec, layer, media, min_ion) -> tuple[dict, tuple, dict]:
@@ -79,6 +84,7 @@ def layer_signal(spec, layer, media, min_ion) -> tuple[dict, tuple, dict]:
         "most_probable_keV": dist.mode * 1e3,
         "fwhm_keV": width * 1e3,
         "normalisation": float(dist.cumulative[-1]),
+        "binding_dominates": dist.binding_sigma > BINDING_DOMINANT_XI * dist.xi,
         "angles": [],
     }
     out = {"straggling": numbers}
@@ -97,11 +103,10 @@ def layer_signal(spec, layer, media, min_ion) -> tuple[dict, tuple, dict]:
             "most_probable_fC": float(_charge_fc(d.mode, w)) if w else None,
             "efficiency": float(fraction_above(d, thr.energy)) if thr is not None else None,
         })
-    figure = {"energy_keV": dist.energy * 1e3, "density_per_keV": dist.density * 1e-3, "mode_keV": dist.mode * 1e3,
-              "threshold_keV": thr.energy * 1e3 if thr else None,
-              "threshold_label": f"{thr.value:g} {thr.unit}" if thr else None,
-              "efficiency": out.get("mip_efficiency_above_threshold"),
-              "keep99_keV": out["threshold_for_99_percent"]["keV"] if thr else None,
-              "kev_per_fC": (w * 1e-3 / FC_PER_CARRIER) if w else None,
-              "top_keV": float(max(dist.mode + 8.0 * width, 1.3 * (thr.energy if thr else 0.0)) * 1e3)}
-    return out, csv_rows(dist, w, thr.energy if thr else None), figure
+    e_kev, p_kev = display_grid(dist, thr.energy if thr else None)
+    figure = {"energy_keV": e_kev, "density_per_keV": p_kev, "mode_keV": dist.mode * 1e3, "model": dist.model,
+              "threshold": {"keV": thr.energy * 1e3, "label": f"{thr.value:g} {thr.unit}",
+                            "efficiency": out["mip_efficiency_above_threshold"],
+                            "keep99_keV": out["threshold_for_99_percent"]["keV"]} if thr else None,
+              "keV_per_fC": (w * 1e-3 / FC_PER_CARRIER) if w else None}
+    return out, csv_rows(e_kev, p_kev, w), figure
