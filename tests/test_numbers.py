@@ -16,6 +16,8 @@ NULLABLE = {
     "temperature_K": "not a gas", "pressure_Pa": "not a gas",
     "efficient_from_GeV_c": "the lighter species never reaches 3 photoelectrons below the heavier one's threshold",
     "separated_up_to_GeV_c": "never separated at 3 sigma in the momentum range",
+    "most_probable_fC": "no mean energy per carrier (W) for this material",
+    "efficiency": "no threshold on this layer (straggling angle table)",
     "sampling_fraction_mip": "no active slab", "stochastic_term_fraction_sqrt_GeV": "no active slab",
 }
 
