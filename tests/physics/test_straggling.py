@@ -145,3 +145,22 @@ def test_efficiency_falls_with_threshold_and_inverts(silicon):
     t99 = threshold_keeping(d, 0.99)
     assert float(fraction_above(d, t99)) == pytest.approx(0.99, abs=1e-4)
     assert t99 < d.mode
+
+
+@pytest.mark.parametrize("width_over_xi", [0.5, 1.7, 4.0])
+def test_widened_landau_against_an_independent_convolution(silicon, width_over_xi):
+    # reference library: pylandau's langau_pdf (Landau by the CERNLIB DENLAN algorithm convolved numerically with a
+    # Gaussian), placed with its own mode at Delta_p like refgen's
+    pylandau = pytest.importorskip("pylandau")
+    md, (bg, dedx) = silicon
+    x = 0.015 * 2.329
+    xi = float(landau_xi(bg, 1, md, x))
+    d = loss_distribution(bg, MUON_MASS, 1, md, x, dedx * x, (width_over_xi * xi) ** 2)
+    lam = np.linspace(-5.0, 40.0, 9001)
+    ref = pylandau.langau_pdf(lam, 0.0, 1.0, width_over_xi)
+    i = int(np.argmax(ref))
+    a, b, c = ref[i - 1:i + 2]
+    mode = lam[i] + 0.5 * (a - c) / (a - 2 * b + c) * (lam[1] - lam[0])
+    energy = d.mode + xi * (lam - mode)
+    ours = np.interp(energy, d.energy, d.density) * xi
+    assert np.max(np.abs(ours - ref)) < 1e-3 * ref.max()
