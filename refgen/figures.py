@@ -318,6 +318,11 @@ def windows_figure(windows: list[dict], labels: dict, p_range: tuple[float, floa
         return to_svg(fig)
 
 
+def _kev(value: float) -> str:
+    """An energy in keV for a label: 3 significant figures, without an exponent."""
+    return f"{value:.3g}" if abs(value) < 1000 else f"{value:.0f}"
+
+
 def straggling_figure(energy_kev, density, mode_kev: float, threshold: dict | None, kev_per_fc: float | None,
                       model: str) -> bytes:
     """Energy-loss distribution of a minimum-ionising particle in one layer, with the most probable loss, the
@@ -330,7 +335,7 @@ def straggling_figure(energy_kev, density, mode_kev: float, threshold: dict | No
         ax.plot(e, p, label=f"{model.capitalize()} distribution, widened for atomic binding", **line_style(0))
         top = float(p.max())
         ax.axvline(mode_kev, color="#555555", linewidth=0.8, linestyle=":")
-        ax.annotate(f"most probable {mode_kev:.3g} keV", (mode_kev, top * 1.02), xytext=(3, 0), textcoords="offset points",
+        ax.annotate(f"most probable {_kev(mode_kev)} keV", (mode_kev, top * 1.02), xytext=(3, 0), textcoords="offset points",
                     fontsize=7.5, color="#444444", va="bottom")
         if threshold:
             t = threshold["keV"]
@@ -342,7 +347,7 @@ def straggling_figure(energy_kev, density, mode_kev: float, threshold: dict | No
             ax.annotate(f"threshold {threshold['label']}", (t, top * 0.55), xytext=(4, 0), textcoords="offset points",
                         fontsize=7.5, color=PALETTE[1])
             ax.axvline(threshold["keep99_keV"], color=PALETTE[2], linewidth=1.0, linestyle="--",
-                        label=f"highest threshold keeping 99 %: {threshold['keep99_keV']:.3g} keV")
+                        label=f"highest threshold keeping 99 %: {_kev(threshold['keep99_keV'])} keV")
         ax.set_xlim(0, float(e[-1]))
         ax.set_ylim(0, top * 1.15)
         ax.set_xlabel("energy deposited (keV)")
