@@ -8,9 +8,10 @@ second):
 * ``MAX_BYTES``: a spec is a few kilobytes; 1 MiB is hundreds of times the largest realistic one.
 * ``MAX_DEPTH``: nesting depth. A spec nests about five levels; 50 leaves room and keeps every recursive
   step far from Python's recursion limit.
-* ``MAX_VALUES``: the number of values after aliases are expanded. Aliases that repeat each other
-  ("a: &a [x, x], b: &b [*a, *a], ...") grow exponentially; 20 000 values is ten times a 300-layer stack with
-  long refractive-index tables. An alias to the structure that contains it (a loop) is refused as well.
+* ``MAX_VALUES``: the number of values that aliases add when they are expanded. Aliases that repeat each
+  other ("a: &a [x, x], b: &b [*a, *a], ...") grow exponentially; 20 000 added values is far more than any
+  spec's shared cells or index tables need. Values written out are bounded by ``MAX_BYTES`` alone, so a
+  stack of thousands of layers is fine. An alias to the structure that contains it (a loop) is refused as well.
 """
 from __future__ import annotations
 
@@ -75,10 +76,12 @@ def precheck_file(path, source: str) -> None:
 
 
 def check_bounds(text: str) -> None:
-    """Refuse a spec over MAX_BYTES, nested deeper than MAX_DEPTH, or expanding to more than MAX_VALUES values.
+    """Refuse a spec over MAX_BYTES, nested deeper than MAX_DEPTH, or whose aliases add more than MAX_VALUES
+    values when expanded.
 
     One pass over the parse events (the parser keeps its own stack, so it cannot recurse too deep): each
-    collection's expanded size is summed as it closes, and an alias adds the size of what its anchor holds.
+    collection's expanded size is summed as it closes, and an alias adds the size of what its anchor holds,
+    less the one value it is written as.
     """
     size = len(text.encode("utf-8", "surrogatepass"))
     if size > MAX_BYTES:
@@ -98,7 +101,7 @@ def _walk_events(text: str) -> None:
     anchors: dict[str, int] = {}
     open_anchors: set[str] = set()
     stack: list[list] = [[0, None]]  # per open collection: [expanded values so far, its anchor]
-    total = 0
+    added = 0  # values that aliases add beyond the ones written out
     for event in yaml.parse(text, Loader=_Loader):
         line = event.start_mark.line + 1 if event.start_mark else None
         if isinstance(event, yaml.CollectionStartEvent):
@@ -122,11 +125,11 @@ def _walk_events(text: str) -> None:
                 raise SpecError([Problem("", line, f"the alias *{event.anchor} refers to the structure that "
                                                    "contains it (a loop)")])
             count = anchors.get(event.anchor, 1)
+            added += count - 1
         else:
             continue
         stack[-1][0] += count
-        total += count
-        if total > MAX_VALUES or stack[-1][0] > MAX_VALUES:
+        if added > MAX_VALUES:
             where = f" (the alias *{event.anchor} here)" if isinstance(event, yaml.AliasEvent) else ""
             raise SpecError([Problem("", line, f"the spec expands to more than {MAX_VALUES} values{where}; "
                                                "YAML aliases that repeat each other grow without bound")])
