@@ -188,9 +188,8 @@ def probabilities(e, mu_total, mu_pair) -> dict:
 
 
 def tracking_volume_photons(spec, coeffs) -> dict:
-    """Conversion probability through everything up to and including the last tracking layer."""
-    last = max((i for i, l in enumerate(spec.layers) if l.system == "tracking"), default=-1)
-    layers = spec.layers[: last + 1]
+    """Conversion probability through the tracking volume (Spec.tracking_volume)."""
+    layers = spec.tracking_volume()
     out = probabilities(np.array(LAYER_ENERGIES_MEV), *_optical_depths(spec, layers, coeffs))
     out["layers"] = [l.name for l in layers]
     return out

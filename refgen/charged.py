@@ -21,6 +21,13 @@ ROUND_MOMENTA = (0.1e3, 0.3e3, 1e3, 3e3, 10e3, 30e3, 100e3)  # MeV/c, for the pe
 MUON_MASS = 105.6583755
 VAVILOV_GAUSSIAN_KAPPA = 0.1  # above this the straggling is nearly Gaussian (RPP 2024 Sec. 34.2.9; Vavilov 1957)
 FC_PER_CARRIER = 1.602176634e-4  # elementary charge in fC (CODATA 2018, exact)
+# An electron or positron is said to shower, and gets no reach momentum, once at least this much material lies in
+# front of the layer. By Rossi's definition of the critical energy, the collision loss over one radiation length
+# is about E_c, so an electron that crosses 1 X0 starts with E >~ E_c and loses as much or more to bremsstrahlung
+# photons that carry energy away in a cascade: one continuous-slowing-down momentum no longer describes it
+# (Review of Particle Physics 2024, Sec. 34.4.2 and 34.5). Below 1 X0 the CSDA walk with the mean total loss is
+# kept, as an estimate of the mean. Common practice for the threshold.
+SHOWER_ONSET_X0 = 1.0
 
 
 def validity_edge_momentum(species) -> float:
@@ -60,14 +67,18 @@ def muon_critical_energy_gev(material, medium) -> float:
 
 
 def species_curve(species, medium, x0, table, p) -> dict:
-    """dE/dx and CSDA range of one species in one material on the momentum grid ``p`` (MeV/c)."""
+    """dE/dx and CSDA range of one species in one material on the momentum grid ``p`` (MeV/c). ``showers``
+    marks electron and positron momenta above the critical energy (radiative >= collision loss), where no CSDA
+    range is given."""
     s = mass_stopping_power(p, species.mass, species.charge, medium, x0)
     t = kinetic_energy(p, species.mass)
     r = table.range_of(np.clip(t, table.t[0], None))
     valid = p >= validity_edge_momentum(species)
+    showers = s["radiative"] >= s["collision"] if species.is_electron_like else np.zeros_like(valid)
     return {"momentum_GeV_c": p / 1e3, "kinetic_energy_MeV": t, "beta_gamma": beta_gamma(p, species.mass),
             "dedx_MeV_cm2_g": s["total"], "collision_MeV_cm2_g": s["collision"],
-            "radiative_MeV_cm2_g": s["radiative"], "csda_range_g_cm2": np.where(valid, r, np.nan), "valid": valid}
+            "radiative_MeV_cm2_g": s["radiative"], "csda_range_g_cm2": np.where(valid & ~showers, r, np.nan),
+            "valid": valid, "showers": showers}
 
 
 def slab_sequence(layers):
@@ -127,14 +138,70 @@ def crossing_momenta(spec, tables) -> dict:
             for sp in spec.species}
 
 
-def tracking_scattering_curves(spec, x0s) -> dict:
-    """Highland theta0 (mrad) against momentum for each species through all material up to the last tracking layer."""
-    last = max((i for i, l in enumerate(spec.layers) if l.system == "tracking"), default=-1)
-    total = sum(spec.layer_depth(l, x0s) for l in spec.layers[: last + 1])
+def depth_in_front_X0(spec, x0s) -> dict[str, float]:
+    """x/X0 of all material between the interaction point and the front face of each layer."""
+    out, total = {}, 0.0
+    for layer in spec.layers:
+        out[layer.name] = total
+        total += spec.layer_depth(layer, x0s)
+    return out
+
+
+def electron_showers(spec, x0s) -> dict:
+    """Where an electron or positron showers instead of slowing down (SHOWER_ONSET_X0): per electron-like
+    species, the layers whose front lies behind at least SHOWER_ONSET_X0 (reach) and the layers at least that
+    thick on their own (cross), each with its depth in X0. Presentation of the CSDA walk, kept apart from it."""
+    front = depth_in_front_X0(spec, x0s)
+    own = {l.name: spec.layer_depth(l, x0s) for l in spec.layers}
+    electrons = [sp.key for sp in spec.species if sp.is_electron_like]
+    return {"onset_X0": SHOWER_ONSET_X0,
+            "reach_depth_X0": {sp: {n: d for n, d in front.items() if d >= SHOWER_ONSET_X0} for sp in electrons},
+            "cross_depth_X0": {sp: {n: d for n, d in own.items() if d >= SHOWER_ONSET_X0} for sp in electrons}}
+
+
+def without_showers(momenta: dict, depths: dict) -> dict:
+    """The reach or crossing momenta with None where the species showers (depths from electron_showers)."""
+    return {sp: {n: (None if n in depths.get(sp, {}) else v) for n, v in row.items()} for sp, row in momenta.items()}
+
+
+REACH_STATES = {"shower": "showers: {depth:.3g} X0 of material in front (electrons shower past {onset:g} X0)",
+                "beyond": "beyond the momentum range of the range tables",
+                "limited": "below the energy-loss model's validity edge: limited accuracy"}
+
+
+def reach_state(value, shower_depth, edge_gev: float) -> str:
+    """What a reach or crossing momentum (GeV/c or None) means: 'ok', 'limited' (below the species' validity
+    edge), 'shower' (an electron showers: shower_depth in X0 is not None) or 'beyond' (out of the tables)."""
+    if shower_depth is not None:
+        return "shower"
+    if value is None:
+        return "beyond"
+    return "limited" if 0 < value < edge_gev else "ok"
+
+
+def reach_flag(value, shower_depth, edge_gev: float) -> str:
+    """The flag-column text for a reach or crossing momentum ('' when it is a plain result)."""
+    state = reach_state(value, shower_depth, edge_gev)
+    if state == "ok":
+        return ""
+    return REACH_STATES[state].format(depth=shower_depth or 0.0, onset=SHOWER_ONSET_X0)
+
+
+def tracking_scattering_curves(spec, x0s, tables) -> dict:
+    """Highland theta0 (mrad) against momentum for each species through the tracking volume (Spec.tracking_volume).
+    NaN where the species cannot cross the tracking volume (it stops, or, for electrons, showers in it)."""
+    volume = spec.tracking_volume()
+    total = sum(spec.layer_depth(l, x0s) for l in volume)
+    slabs = [s for _, s in slab_sequence(volume)]
     p = spec.momentum.values()
     out = {"momentum_GeV_c": p / 1e3, "x_over_X0": total}
     for sp in spec.species:
-        out[f"theta0_mrad_{sp.key}"] = highland_theta0(p, sp.mass, sp.charge, total) * 1e3 if total > 0 else np.full_like(p, np.nan)
+        need = momentum_to_cross(spec, tables, sp, slabs) if slabs else 0.0
+        if need is None or total <= 0 or (sp.is_electron_like and total >= SHOWER_ONSET_X0):
+            theta = np.full_like(p, np.nan)
+        else:
+            theta = np.where(p / 1e3 >= need, highland_theta0(p, sp.mass, sp.charge, total) * 1e3, np.nan)
+        out[f"theta0_mrad_{sp.key}"] = theta
     return out
 
 
@@ -181,9 +248,10 @@ def layer_signals(spec, layer, media, x0s, min_ion) -> dict:
 
 
 def cumulative_scattering(spec, x0s) -> list[dict]:
-    """Highland theta0 of a 1 GeV/c muon after all material up to and including each tracking layer."""
+    """Highland theta0 of a 1 GeV/c muon after all material up to and including each tracking layer of the
+    tracking volume (Spec.tracking_volume)."""
     total, out = 0.0, []
-    for layer in spec.layers:
+    for layer in spec.tracking_volume():
         total += spec.layer_depth(layer, x0s)
         if layer.system == "tracking":
             out.append({"layer": layer.name, "x_over_X0": total,
@@ -192,12 +260,19 @@ def cumulative_scattering(spec, x0s) -> list[dict]:
 
 
 def round_momentum_row(species, medium, x0, table) -> dict:
-    """dE/dx and CSDA range of one species in one material at the round momenta (None below validity)."""
+    """Collision (ionisation) dE/dx, total dE/dx (collision + radiative; given only for a species whose
+    radiative loss reaches 1 % of the collision loss at a round momentum) and CSDA range of one species in one
+    material at the round momenta. None below validity; no CSDA range for electrons and positrons above the
+    critical energy, where they shower ("showers")."""
     p = np.array(ROUND_MOMENTA)
-    s = mass_stopping_power(p, species.mass, species.charge, medium, x0)["total"]
+    s = mass_stopping_power(p, species.mass, species.charge, medium, x0)
     t = kinetic_energy(p, species.mass)
     valid = p >= validity_edge_momentum(species)
     r = table.range_of(np.clip(t, table.t[0], None))
+    ranged = valid & ((s["radiative"] < s["collision"]) if species.is_electron_like else True)
+    radiative = bool(np.any(s["radiative"][valid] >= 0.01 * s["collision"][valid]))
     return {"species": species.key, "label": species.label,
-            "dedx": [float(v) if ok else None for v, ok in zip(s, valid)],
-            "range": [float(v) if ok else None for v, ok in zip(r, valid)]}
+            "collision": [float(v) if ok else None for v, ok in zip(s["collision"], valid)],
+            "total": [float(v) if ok else None for v, ok in zip(s["total"], valid)] if radiative else None,
+            "range": [float(v) if ok else None for v, ok in zip(r, ranged)],
+            "showers": [bool(ok and not rk) for ok, rk in zip(valid, ranged)]}

@@ -2,6 +2,7 @@
 downloads, search index). Plain data computed from the key numbers; templates only format it."""
 from __future__ import annotations
 
+from .charged import REACH_STATES, SHOWER_ONSET_X0, reach_state
 from .model import SYSTEM_KINDS
 
 SYSTEM_TITLES = {
@@ -9,7 +10,12 @@ SYSTEM_TITLES = {
     "hadron-calorimeter": "Hadron calorimeter", "muon": "Muon system", "absorber": "Absorbers",
     "support": "Supports and services", "other": "Other layers",
 }
-QUICK_SPECIES = ("muon", "antimuon", "pion", "pion-minus", "kaon", "proton", "electron")
+# The quick reference shows every species of the spec up to QUICK_MAX_SPECIES (what fits one printed page);
+# beyond that it keeps the species of QUICK_PRIORITY first, and always the electron when the stack has a
+# Cherenkov radiator or a calorimeter (electron tagging and showers are then part of a shift's questions).
+QUICK_MAX_SPECIES = 8
+QUICK_PRIORITY = ("electron", "muon", "pion", "kaon", "proton", "positron", "antimuon", "pion-minus")
+QUICK_ALL_SENSITIVE = 6  # up to this many sensitive layers, the reach table lists every one of them
 
 
 def stack_strips(kn: dict) -> dict:
@@ -45,6 +51,33 @@ def systems(kn: dict, report: dict) -> list[dict]:
     return out
 
 
+def reach_cell(kn: dict, report: dict, table: str, species: str, layer: str) -> dict:
+    """One cell of a reach ('reach') or crossing ('cross') table: the momentum (GeV/c or None), its state
+    ('ok', 'limited', 'shower', 'beyond'; see charged.reach_state) and, for a shower, the depth in X0."""
+    value = kn[f"{table}_momentum_GeV_c"][species][layer]
+    depth = kn["electron_showers"][f"{table}_depth_X0"].get(species, {}).get(layer)
+    return {"value": value, "state": reach_state(value, depth, report["validity_edges_GeV_c"][species]),
+            "depth_X0": depth}
+
+
+def reach_rows(kn: dict, report: dict, table: str, layers: list[str] | None = None,
+               species: list[str] | None = None) -> list[dict]:
+    """Rows of a reach or crossing table: per layer, one cell per species (reach_cell)."""
+    species = species if species is not None else list(kn["particles"])
+    layers = layers if layers is not None else [l["name"] for l in kn["layers"]]
+    return [{"layer": n, "cells": [reach_cell(kn, report, table, sp, n) for sp in species]} for n in layers]
+
+
+def reach_cells(kn: dict, report: dict, table: str) -> dict:
+    """{layer: {species: cell}} for a reach or crossing table (reach_cell)."""
+    return {row["layer"]: dict(zip(kn["particles"], row["cells"])) for row in reach_rows(kn, report, table)}
+
+
+def reach_notes() -> dict:
+    """The meaning of each non-numeric or marked reach cell, for the notes under every reach table."""
+    return {"onset_X0": SHOWER_ONSET_X0, **REACH_STATES}
+
+
 def species_pages(kn: dict, report: dict) -> list[dict]:
     """Per species: its numbers across materials, layers and radiators."""
     out = []
@@ -52,29 +85,47 @@ def species_pages(kn: dict, report: dict) -> list[dict]:
         per_material = []
         for name, rows in report["round_table"].items():
             row = next(r for r in rows if r["species"] == key)
-            per_material.append({"material": name, "dedx": row["dedx"], "range": row["range"]})
+            per_material.append({"material": name, **row})
         out.append({"key": key, "label": p["label"], "mass_MeV": p["mass_MeV"], "charge": p["charge"],
                     "custom": p["custom"], "per_material": per_material,
-                    "reach": kn["reach_momentum_GeV_c"][key],
+                    "reach": reach_rows(kn, report, "reach", species=[key]),
+                    "cross": reach_rows(kn, report, "cross", species=[key]),
                     "thresholds": {r: v["threshold_momentum_GeV_c"][key] for r, v in kn["radiators"].items()}})
     return out
 
 
-def quick_reference(kn: dict) -> dict:
+def quick_species(kn: dict) -> list[str]:
+    """The species columns of the quick reference (QUICK_MAX_SPECIES, QUICK_PRIORITY)."""
+    keys = list(kn["particles"])
+    if len(keys) <= QUICK_MAX_SPECIES:
+        return keys
+    ranked = [k for k in QUICK_PRIORITY if k in keys] + [k for k in keys if k not in QUICK_PRIORITY]
+    chosen = ranked[:QUICK_MAX_SPECIES]
+    if "electron" in keys and "electron" not in chosen and (kn["radiators"] or kn["calorimeters"]):
+        chosen[-1] = "electron"
+    return [k for k in keys if k in chosen]
+
+
+def quick_landmarks(kn: dict) -> list[str]:
+    """The layers of the quick-reference reach table: every sensitive layer when there are at most
+    QUICK_ALL_SENSITIVE, else the outermost sensitive layer of each system, in stack order."""
+    active = [l for l in kn["layers"] if l["active"]]
+    if len(active) <= QUICK_ALL_SENSITIVE:
+        return [l["name"] for l in active]
+    outermost = {l["system"]: l["name"] for l in active}
+    return [l["name"] for l in active if outermost[l["system"]] == l["name"]]
+
+
+def quick_reference(kn: dict, report: dict) -> dict:
     """The few numbers a shift crew needs, for one printed page."""
-    species = [s for s in QUICK_SPECIES if s in kn["particles"]][:5]
-    landmarks = []
-    seen = set()
-    for l in kn["layers"]:
-        if l["system"] in ("em-calorimeter", "hadron-calorimeter", "muon") and l["system"] not in seen:
-            seen.add(l["system"])
-            landmarks.append(l["name"])
-    muon_layers = [l["name"] for l in kn["layers"] if l["system"] == "muon"]
-    if muon_layers and muon_layers[-1] not in landmarks:
-        landmarks.append(muon_layers[-1])
+    species = quick_species(kn)
+    landmarks = quick_landmarks(kn)
     return {
         "species": species,
+        "all_species": len(species) == len(kn["particles"]),
         "landmarks": landmarks,
+        "all_sensitive": len(landmarks) == sum(1 for l in kn["layers"] if l["active"]),
+        "reach": reach_rows(kn, report, "reach", landmarks, species),
         "active_layers": [l for l in kn["layers"] if l["active"]],
     }
 
@@ -98,32 +149,56 @@ def downloads(report: dict) -> list[dict]:
     return out
 
 
+MATERIAL_QUANTITIES = ("density radiation length X0 moliere radius critical energy nuclear interaction length lambda "
+                       "minimum ionisation ionization dE/dx stopping power energy loss CSDA range photon attenuation "
+                       "mean excitation energy")
+
+
+def element_names(symbols) -> str:
+    """The element names of a material's symbols ('Pb' -> 'lead'), so a search for 'lead' finds PbWO4."""
+    import periodictable
+    return " ".join(getattr(periodictable, s).name for s in symbols if hasattr(periodictable, s))
+
+
 def search_index(kn: dict, report: dict) -> list[dict]:
-    """Entries for the offline search box: pages, materials, layers, species, radiators and quantities."""
+    """Entries for the offline search box: pages, materials (with their elements' names), layers, species,
+    radiators with each species' threshold, scintillators and quantities. Page headings are added by render."""
     entries = [
-        {"t": "Layer stack", "u": "index.html", "k": "stack layers overview front page"},
-        {"t": "Quick reference", "u": "quickref.html", "k": "shift crew summary print"},
-        {"t": "Charged particles", "u": "charged.html", "k": "reach momentum signals landau most probable carriers scattering theta0 scintillator birks"},
+        {"t": "Layer stack", "u": "index.html", "k": "stack layers overview front page thickness density"},
+        {"t": "Quick reference", "u": "quickref.html", "k": "shift crew summary print reach carriers photons thresholds"},
+        {"t": "Charged particles", "u": "charged.html", "k": "reach momentum cross signals landau most probable mean carriers "
+                                                           "fC scattering theta0 highland scintillator light birks quench quenching electrons shower"},
         {"t": "Thin-sensor signals", "u": "signals.html", "k": "threshold efficiency landau vavilov straggling distribution fC charge angle"},
-        {"t": "Material budget", "u": "budget.html", "k": "radiation length interaction length survival conversion x/X0"},
-        {"t": "Photons", "u": "photons.html", "k": "photoabsorption photoelectric compton rayleigh pair conversion transmission attenuation crossover map"},
-        {"t": "Methods and validity", "u": "methods.html", "k": "formula reference validity accuracy caution"},
-        {"t": "Downloads", "u": "downloads.html", "k": "csv json data files"},
+        {"t": "Material budget", "u": "budget.html", "k": "radiation length interaction length survival conversion x/X0 tracking volume"},
+        {"t": "Photons", "u": "photons.html", "k": "photoabsorption photoelectric compton rayleigh pair conversion probability transmission attenuation crossover map regime tracking volume"},
+        {"t": "Methods and validity", "u": "methods.html", "k": "formula reference validity accuracy caution limited"},
+        {"t": "Downloads", "u": "downloads.html", "k": "csv json data files key numbers"},
     ]
     for name, m in kn["materials"].items():
+        scint = " scintillator light yield birks quench quenching" if any(
+            l.get("scintillator", {}).get("material") == name for l in kn["layers"]) else ""
         entries.append({"t": f"Material: {name}", "u": f"material-{report['material_slugs'][name]}.html",
-                        "k": f"{m['description']} {' '.join(m['mass_fractions'])} density dE/dx range X0 radiation length"})
+                        "k": f"{m['description']} {' '.join(m['mass_fractions'])} {element_names(m['mass_fractions'])} "
+                             f"{m['state']} {MATERIAL_QUANTITIES}{scint}"})
     for l in kn["layers"]:
+        extra = " scintillator light birks quench quenching" if "scintillator" in l else ""
         entries.append({"t": f"Layer: {l['name']}", "u": f"system-{l['system']}.html",
-                        "k": f"{l['material']} {l['system']}"})
+                        "k": f"{l['material']} {l['system']} {SYSTEM_TITLES[l['system']]}{extra}"})
     for key, p in kn["particles"].items():
-        entries.append({"t": f"Particle: {key} ({p['label']})", "u": f"species-{report['species_slugs'][key]}.html", "k": p["label"]})
+        entries.append({"t": f"Particle: {key} ({p['label']})", "u": f"species-{report['species_slugs'][key]}.html",
+                        "k": f"{p['label']} reach range dE/dx energy loss mass"})
     for s in systems(kn, report):
         entries.append({"t": f"System: {s['title']}", "u": f"system-{s['kind']}.html", "k": s["kind"]})
-    for r in kn["radiators"]:
-        entries.append({"t": f"Cherenkov: {r}", "u": f"cherenkov-{report['layer_slugs'][r]}.html", "k": "threshold ring angle photoelectrons"})
+    for r, v in kn["radiators"].items():
+        page = f"cherenkov-{report['layer_slugs'][r]}.html"
+        entries.append({"t": f"Cherenkov: {r}", "u": page,
+                        "k": f"{v['material']} threshold ring angle photoelectrons refractive index"})
+        for sp in v["threshold_momentum_GeV_c"]:
+            entries.append({"t": f"{sp} Cherenkov threshold in {r}", "u": page,
+                            "k": f"{kn['particles'][sp]['label']} threshold momentum"})
     for kind in kn["calorimeters"]:
-        entries.append({"t": f"Showers: {kind}", "u": f"showers-{kind}.html", "k": "moliere containment shower maximum"})
+        entries.append({"t": f"Showers: {SYSTEM_TITLES[kind]}", "u": f"showers-{kind}.html",
+                        "k": f"{kind} moliere containment shower maximum electron positron photon"})
     return entries
 
 

@@ -58,9 +58,8 @@ def card_groups(m: dict) -> list[dict]:
     note, digits}]}. A value of None is shown with its note instead of a number."""
     gas = m["state"] == "gas"
     about = [_row("Density", m["density_g_cm3"], "g/cm³")]
-    if m.get("temperature_K"):
-        about.append(_row("Temperature", m["temperature_K"] - 273.15, "°C", digits=3))
-        about.append(_row("Pressure", m["pressure_Pa"] / 1e3, "kPa", digits=4))
+    if m.get("conditions_as_given"):  # echoed as the spec typed them (temperature, pressure)
+        about.append(_row("Gas conditions", m["conditions_as_given"], ""))
     about += [_row("Mean excitation energy", m["mean_excitation_energy_eV"], "eV", m["mean_excitation_energy_source"], sub=("I", "")),
               _row("Electrons per unit mass", m["z_over_a"], "mol/g", "energy loss scales with it", 5, ("⟨Z/A⟩", "")),
               _row("Electron density", m["electron_density_per_cm3"], "cm⁻³")]

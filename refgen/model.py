@@ -23,6 +23,9 @@ SYSTEM_KINDS = {
     "other": "Anything else.",
 }
 CALORIMETER_KINDS = ("em-calorimeter", "hadron-calorimeter")
+TRACKING_VOLUME_ENDS = ("absorber", "em-calorimeter", "hadron-calorimeter", "muon")
+TRACKING_VOLUME_DEFINITION = ("all material from the interaction point through the last tracking layer in front of "
+                              "the first absorber, calorimeter or muon layer")
 
 
 @dataclass(frozen=True)
@@ -76,6 +79,8 @@ class Material:
     pressure_Pa: float | None = None
     scintillator: dict | None = None
     index_density_ratio: float = 1.0
+    conditions_text: str = ""  # a gas's temperature and pressure as the spec typed them (shown on the pages)
+    index_conditions_text: str = ""  # the conditions of a gas's refractive_index as typed ("" = its own conditions)
 
     @property
     def is_gas(self) -> bool:
@@ -247,6 +252,18 @@ class Spec:
             out[layer.name] = z
             z += layer.thickness
         return out
+
+    def tracking_volume(self) -> tuple[Layer, ...]:
+        """The layers of the tracking volume (TRACKING_VOLUME_DEFINITION): from the first layer through the last
+        tracking layer that lies in front of the first absorber, calorimeter or muon layer behind the first
+        tracking layer. Empty when the stack has no tracking layer."""
+        kinds = [l.system for l in self.layers]
+        if "tracking" not in kinds:
+            return ()
+        first = kinds.index("tracking")
+        end = next((i for i in range(first, len(kinds)) if kinds[i] in TRACKING_VOLUME_ENDS), len(kinds))
+        last = max(i for i in range(first, end) if kinds[i] == "tracking")
+        return self.layers[: last + 1]
 
     def layer_depth(self, layer: Layer, lengths_g_cm2: dict[str, float]) -> float:
         """Thickness of a layer in units of a per-material length (X0 or lambda_I, g/cm2):

@@ -14,6 +14,7 @@ import base64
 import csv
 import io
 import re
+from html import unescape
 
 import jinja2
 import numpy as np
@@ -22,14 +23,24 @@ from markupsafe import Markup, escape
 
 from . import datafiles
 from .figures import Drawer
-from .report import plain
+from .report import CAUTION, plain
 import nh3
 
 ALLOWED_TAGS = {"p", "em", "strong", "code", "pre", "ul", "ol", "li", "a", "blockquote", "h3", "h4", "br", "sub", "sup"}
 
 
-def format_number(value, digits: int = 4) -> str:
-    """A number to ``digits`` significant figures, plain or in scientific notation; '—' for None."""
+PROBABILITY_FLOOR = 1e-6  # below this a probability is shown as "< 10⁻⁶" (no page shows an exponent below -6)
+
+
+def _trim(text: str) -> str:
+    """Drop trailing zeros after a decimal point ('1.03000' -> '1.03', '22.0' -> '22')."""
+    return text.rstrip("0").rstrip(".") if "." in text else text
+
+
+def format_number(value, digits: int = 4, trim: bool = False) -> str:
+    """A number to ``digits`` significant figures, plain or in scientific notation; '—' for None.
+
+    ``trim`` drops trailing zeros: for numbers echoed from the spec, whose precision is the user's."""
     if value is None:
         return "—"
     if isinstance(value, bool):
@@ -43,9 +54,64 @@ def format_number(value, digits: int = 4) -> str:
     mag = math.floor(math.log10(abs(value)))
     if -3 <= mag < 5:
         decimals = max(digits - 1 - mag, 0)
-        return f"{value:.{decimals}f}"
-    mantissa = f"{value / 10 ** mag:.{digits - 1}f}"
-    return f"{mantissa}\u00d710<sup>{mag}</sup>"
+        text = f"{value:.{decimals}f}"
+        return _trim(text) if trim else text
+    mantissa = value / 10 ** mag
+    if abs(round(mantissa, digits - 1)) >= 10:  # rounding carried into the next power of ten
+        mag, mantissa = mag + 1, mantissa / 10
+    text = f"{mantissa:.{digits - 1}f}"
+    return f"{_trim(text) if trim else text}\u00d710<sup>{str(mag).replace('-', '−')}</sup>"
+
+
+LENGTH_UNITS = ((0.1, 1e4, "µm"), (1.0, 10.0, "mm"), (100.0, 1.0, "cm"), (1e5, 0.01, "m"), (math.inf, 1e-5, "km"))
+
+
+def format_length(cm, digits: int = 3, exact: bool = False) -> str:
+    """A length given in cm, with the unit a reader expects: µm below 1 mm, mm below 1 cm, cm below 1 m, then m
+    (km beyond 1 km). ``exact`` drops trailing zeros (a thickness echoed from the spec)."""
+    if cm is None or (isinstance(cm, float) and not math.isfinite(cm)):
+        return "—"
+    for below, factor, unit in LENGTH_UNITS:
+        if abs(cm) < below:
+            return f"{format_number(cm * factor, digits, trim=exact)} {unit}"
+    return "—"
+
+
+def format_momentum(gev, digits: int = 3, exact: bool = False) -> str:
+    """A momentum given in GeV/c: in MeV/c below 1 GeV/c, else in GeV/c, with its unit."""
+    if gev is None or (isinstance(gev, float) and not math.isfinite(gev)):
+        return "—"
+    if abs(gev) < 1.0:
+        return f"{format_number(gev * 1e3, digits, trim=exact)} MeV/c"
+    return f"{format_number(gev, digits, trim=exact)} GeV/c"
+
+
+def format_probability(p, digits: int = 3) -> str:
+    """A probability: '< 10⁻⁶' below 1e-6, '1 − x' close to one (so 0.99999 never rounds to a false 1.00)."""
+    if p is None or (isinstance(p, float) and not math.isfinite(p)):
+        return "—"
+    if p <= 0 or p < PROBABILITY_FLOOR:
+        return "0" if p == 0 else "&lt; 10⁻⁶"
+    if p >= 1:
+        return "1"
+    if 1 - p < PROBABILITY_FLOOR:
+        return "&gt; 1 − 10⁻⁶"
+    if 1 - p < 10 ** -(digits - 1):
+        return f"1 − {format_number(1 - p, 2)}"
+    return format_number(p, digits)
+
+
+def format_grid_momentum(gev, grid, digits: int = 3) -> str:
+    """A momentum that may sit on an edge of the spec's momentum grid (lo, hi in GeV/c): an edge is a bound of
+    the answer, not a result, so it is shown as '≤ lo' or '≥ hi'."""
+    if gev is None:
+        return "—"
+    lo, hi = grid
+    if gev <= lo * (1 + 1e-9):
+        return f"≤ {format_momentum(lo, digits, exact=True)}"
+    if gev >= hi * (1 - 1e-9):
+        return f"≥ {format_momentum(hi, digits, exact=True)}"
+    return format_momentum(gev, digits)
 
 
 def format_percent(fraction) -> str:
@@ -91,6 +157,11 @@ def environment(cache_dir=None) -> jinja2.Environment:
     env = jinja2.Environment(loader=jinja2.FileSystemLoader(str(root)), autoescape=True, bytecode_cache=compiled,
                              undefined=jinja2.StrictUndefined, trim_blocks=True, lstrip_blocks=True)
     env.filters["num"] = lambda v, d=4: Markup(format_number(v, d))
+    env.filters["exact"] = lambda v, d=6: Markup(format_number(v, d, trim=True))
+    env.filters["distance"] = lambda v, d=3, exact=False: Markup(format_length(v, d, exact))
+    env.filters["mom"] = lambda v, d=3, exact=False: Markup(format_momentum(v, d, exact))
+    env.filters["prob"] = lambda v, d=3: Markup(format_probability(v, d))
+    env.filters["pgrid"] = lambda v, grid, d=3: Markup(format_grid_momentum(v, grid, d))
     env.filters["species"] = lambda v: Markup(species_html(v))
     env.filters["percent"] = lambda v: Markup(format_percent(v))
     return env
@@ -119,15 +190,36 @@ def _finite(value):
 
 
 def csv_bytes(header: list[str], rows: list[list], comment: str) -> bytes:
-    """A CSV table with a leading '#' comment line; floats to 6 significant figures, nan as empty."""
+    """A CSV table with two leading '#' comment lines (what it is; the caution); floats at full precision
+    (shortest repr that reads back exactly), None and nan as empty."""
     buf = io.StringIO()
-    buf.write(f"# {comment}\n")
+    buf.write(f"# {comment}\n# Caution: {CAUTION}\n")
     w = csv.writer(buf, lineterminator="\n")
     w.writerow(header)
     for row in rows:
-        w.writerow(["" if isinstance(v, float) and not math.isfinite(v) else (f"{v:.6g}" if isinstance(v, float) else v)
-                    for v in row])
+        w.writerow(["" if v is None or (isinstance(v, float) and not math.isfinite(v)) else
+                    (repr(float(v)) if isinstance(v, float) else v) for v in row])
     return buf.getvalue().encode("utf-8")
+
+
+_HEADING = re.compile(r"<h([123])>(.*?)</h\1>", re.S)
+_TAG = re.compile(r"<[^>]+>")
+
+
+def anchor_headings(html: str) -> tuple[str, list[tuple[int, str, str]]]:
+    """Give every h1-h3 of a page an id, and return (html, [(level, id, plain text)]) for the search index."""
+    found, used = [], set()
+
+    def add_id(m):
+        text = unescape(" ".join(_TAG.sub("", m.group(2)).split()))
+        base = re.sub(r"[^a-z0-9]+", "-", text.lower()).strip("-") or "section"
+        anchor, n = base, 2
+        while anchor in used:
+            anchor, n = f"{base}-{n}", n + 1
+        used.add(anchor)
+        found.append((int(m.group(1)), anchor, text))
+        return f'<h{m.group(1)} id="{anchor}">{m.group(2)}</h{m.group(1)}>'
+    return _HEADING.sub(add_id, html), found
 
 
 def _job(name: str, *args) -> tuple:
@@ -227,17 +319,20 @@ def render_site(report: dict, build_info: dict, single: bool = False, workers: i
     report = dict(report, has_changes=report.get("changes") is not None)
     common = {"kn": kn, "report": report, "build": build_info, "slugs": report["material_slugs"],
               "summary_html": markdown_safe(report["summary_markdown"]), "systems": systems,
-              "layer_rows": handbook.table_layers(kn)}
+              "titles": handbook.SYSTEM_TITLES, "grid": report["momentum_grid_GeV_c"], "notes": handbook.reach_notes(),
+              "reach_cells": handbook.reach_cells(kn, report, "reach"), "layer_rows": handbook.table_layers(kn)}
     files: dict[str, bytes] = {}
     pages = [("index.html", "index.html", {"title": kn["experiment"]["name"], "page": "index",
                                            "strips": handbook.stack_strips(kn)}),
              ("quickref.html", "quickref.html", {"title": "Quick reference", "page": "quickref",
-                                                 "q": handbook.quick_reference(kn)}),
+                                                 "q": handbook.quick_reference(kn, report)}),
              ("methods.html", "methods.html", {"title": "Methods and validity", "page": "methods",
                                                "methods": [dict(m) for m in datafiles.methods()]}),
              ("downloads.html", "downloads.html", {"title": "Downloads", "page": "downloads",
                                                    "files": handbook.downloads(report)}),
-             ("charged.html", "charged.html", {"title": "Charged particles in the stack", "page": "charged"}),
+             ("charged.html", "charged.html", {"title": "Charged particles in the stack", "page": "charged",
+                                               "handbook_reach": handbook.reach_rows(kn, report, "reach"),
+                                               "handbook_cross": handbook.reach_rows(kn, report, "cross")}),
              ("budget.html", "budget.html", {"title": "Material budget", "page": "budget"}),
              ("signals.html", "signals.html", {"title": "Thin-sensor signals", "page": "signals",
                                                "layers": [l for l in kn["layers"] if "straggling" in l]}),
@@ -256,17 +351,20 @@ def render_site(report: dict, build_info: dict, single: bool = False, workers: i
                       {"title": f"Cherenkov radiator: {name}", "page": "cherenkov", "name": name, "r": r,
                        "slug": report["layer_slugs"][name]}))
     for kind, cal in kn["calorimeters"].items():
-        pages.append((f"showers-{kind}.html", "showers.html", {"title": f"Showers: {kind}", "page": "showers",
+        pages.append((f"showers-{kind}.html", "showers.html", {"title": f"Showers: {handbook.SYSTEM_TITLES[kind]}", "page": "showers",
                                                                "kind": kind, "cal": cal}))
     for name, slug in report["material_slugs"].items():
         pages.append((f"material-{slug}.html", "material.html",
                       {"title": f"Material: {name}", "page": "material", "name": name, "m": kn["materials"][name],
                        "rows": report["round_table"][name]}))
+    index = handbook.search_index(kn, report)
     for out, template, ctx in pages:
-        files[out] = env.get_template(template).render(**common, **ctx).encode("utf-8")
+        html, headings = anchor_headings(env.get_template(template).render(**common, **ctx))
+        files[out] = html.encode("utf-8")
+        index.extend({"t": f"{text} — {ctx['title']}" if level > 1 else text, "u": f"{out}#{anchor}" if level > 1 else out,
+                      "k": f"{ctx['title']} heading"} for level, anchor, text in headings)
     files["data/key-numbers.json"] = json_bytes(kn)
-    files["static/search-index.js"] = ("window.REFGEN_INDEX = " + json.dumps(handbook.search_index(kn, report),
-                                                                            sort_keys=True, ensure_ascii=False)
+    files["static/search-index.js"] = ("window.REFGEN_INDEX = " + json.dumps(index, sort_keys=True, ensure_ascii=False)
                                        + ";\n").encode("utf-8")
     for path, (header, rows) in report["csv_tables"].items():
         files[path] = csv_bytes(header, rows, f"{path.split('/')[-1]}: refgen {build_info['version']}, "

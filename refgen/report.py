@@ -12,12 +12,15 @@ import numpy as np
 from . import __version__, attenuation, calorimetry, charged, material_card, radiators, signals
 from .cache import cached_map
 from .changes import spec_summary
-from .model import SYSTEM_KINDS, Spec
+from .model import SYSTEM_KINDS, TRACKING_VOLUME_DEFINITION, Spec
 from .physics.medium import medium_of
 from .physics.radlen import radiation_length
 from .spec import safe_name
 
 SCHEMA = "refgen-key-numbers/1"
+CAUTION = ("Ranges, attenuation and other shielding-like numbers from refgen are for detector design and operation; "
+           "they are not for radiation-protection, shielding or dosimetry decisions, which follow local codes and "
+           "licensed practice.")
 
 
 def plain(value):
@@ -58,6 +61,7 @@ def material_numbers(m) -> dict:
         "electron_density_per_cm3": m.electron_density_per_cm3,
         "temperature_K": m.temperature_K,
         "pressure_Pa": m.pressure_Pa,
+        "conditions_as_given": m.conditions_text or None,
         "caveats": list(m.caveats),
     }
 
@@ -81,12 +85,28 @@ def layer_numbers(spec: Spec, layer, position_cm: float) -> dict:
     return out
 
 
+DEDX_FLAGS = {"limited": "below the model's validity edge: limited accuracy",
+              "non_positive": "below the model's validity edge: the model gives no meaningful value",
+              "showers": "above the critical energy the particle showers: no CSDA range"}
+
+
 def dedx_csv_rows(curve: dict) -> tuple[list[str], list[list]]:
-    """Header and rows of one data/dedx/<material>--<particle>.csv table."""
+    """Header and rows of one data/dedx/<material>--<particle>.csv table. dedx_MeV_cm2_g is the total
+    (collision + radiative) loss; a value that is not meaningful is left empty and the flag column says why."""
     cols = ["momentum_GeV_c", "kinetic_energy_MeV", "beta_gamma", "dedx_MeV_cm2_g", "csda_range_g_cm2",
             "collision_MeV_cm2_g", "radiative_MeV_cm2_g", "valid"]
-    rows = [list(r) for r in zip(*(curve[c].tolist() for c in cols))]
-    return cols, rows
+    rows = []
+    for i, row in enumerate(zip(*(curve[c].tolist() for c in cols))):
+        row, flags = list(row), []
+        if not row[7]:
+            bad = row[5] <= 0 or row[3] <= 0
+            flags.append(DEDX_FLAGS["non_positive" if bad else "limited"])
+            if bad:
+                row[3] = row[5] = row[6] = None
+        if curve["showers"][i]:
+            flags.append(DEDX_FLAGS["showers"])
+        rows.append(row + ["; ".join(flags)])
+    return cols + ["flag"], rows
 
 
 def material_physics(m, photon_energies) -> dict:
@@ -162,7 +182,9 @@ def make_report(spec: Spec, progress=None, cache_dir=None, workers: int = 1) -> 
         layers.append(entry)
         z += layer.thickness
     say("computing: reach, budget, showers and radiators")
-    reach = charged.reach_momenta(spec, tables)
+    showers = charged.electron_showers(spec, x0s)
+    reach = charged.without_showers(charged.reach_momenta(spec, tables), showers["reach_depth_X0"])
+    cross = charged.without_showers(charged.crossing_momenta(spec, tables), showers["cross_depth_X0"])
     radiator_numbers, radiator_curves = {}, {}
     for r in spec.radiators:
         radiator_numbers[r.layer], radiator_curves[r.layer] = radiators.radiator_numbers(spec, r, spec.momentum.values())
@@ -171,8 +193,10 @@ def make_report(spec: Spec, progress=None, cache_dir=None, workers: int = 1) -> 
     systems = calorimetry.systems_showers(spec, layers, materials)
     tracking = attenuation.tracking_volume_photons(spec, layer_coeffs)
     tracking_x0 = sum(l["x_over_X0"] for l in layers if l["name"] in tracking["layers"])
+    tracking_definition = TRACKING_VOLUME_DEFINITION
     key_numbers = {
         "schema": SCHEMA,
+        "caution": CAUTION,
         "refgen_version": __version__,
         "spec_sha256_16": spec.spec_hash,
         "experiment": {"name": spec.experiment.name, "revision": spec.experiment.revision},
@@ -183,13 +207,14 @@ def make_report(spec: Spec, progress=None, cache_dir=None, workers: int = 1) -> 
         "layers": layers,
         "stack_length_cm": z,
         "reach_momentum_GeV_c": reach,
-        "cross_momentum_GeV_c": charged.crossing_momenta(spec, tables),
+        "cross_momentum_GeV_c": cross,
+        "electron_showers": showers,
         "tracking_scattering": charged.cumulative_scattering(spec, x0s),
         "material_budget": budget,
         "radiators": radiator_numbers,
         "hadron_survival": survival,
         "calorimeters": systems,
-        "tracking_volume": {"x_over_X0": tracking_x0, "layers": tracking["layers"],
+        "tracking_volume": {"x_over_X0": tracking_x0, "layers": tracking["layers"], "definition": tracking_definition,
                             "photon_conversion_probability_high_energy": calorimetry.conversion_probability_high_energy(tracking_x0),
                             "photon": tracking,
                             "photon_conversion_probability_at_1_GeV": tracking["conversion_probability"][-1]},
@@ -205,12 +230,20 @@ def make_report(spec: Spec, progress=None, cache_dir=None, workers: int = 1) -> 
         csv_tables[f"data/cherenkov/{layer_slugs[name]}.csv"] = (cols, [list(map(float, r)) for r in zip(*(c[k] for k in cols))])
     csv_tables.update({f"data/straggling/{layer_slugs[name]}.csv": t for name, t in signal_tables.items()})
     names = [l["name"] for l in layers]
-    scattering = charged.tracking_scattering_curves(spec, x0s)
-    cols = list(scattering)
-    cols.remove("x_over_X0")
-    csv_tables["data/tracking-scattering.csv"] = (cols, [list(map(float, r)) for r in zip(*(scattering[c] for c in cols))])
-    csv_tables["data/reach.csv"] = (["layer"] + [f"{sp}_GeV_c" for sp in reach],
-                                    [[n] + [reach[sp][n] for sp in reach] for n in names])
+    scattering = charged.tracking_scattering_curves(spec, x0s, tables)
+    theta_cols = [c for c in scattering if c.startswith("theta0_mrad_")]
+    csv_tables["data/tracking-scattering.csv"] = (
+        ["momentum_GeV_c"] + [c for t in theta_cols for c in (t, f"{t[len('theta0_mrad_'):]}_flag")],
+        [[float(p)] + [c for t in theta_cols for c in ((float(scattering[t][i]), "") if np.isfinite(scattering[t][i])
+                                                        else (None, "stops or showers before crossing the tracking volume"))]
+         for i, p in enumerate(scattering["momentum_GeV_c"])])
+    edges = {sp.key: charged.validity_edge_momentum(sp) / 1e3 for sp in spec.species}
+    for kind, values in (("reach", reach), ("cross", cross)):
+        depths = showers[f"{kind}_depth_X0"]
+        csv_tables[f"data/{kind}.csv"] = (
+            ["layer"] + [c for sp in values for c in (f"{sp}_GeV_c", f"{sp}_flag")],
+            [[n] + [c for sp in values for c in (values[sp][n], charged.reach_flag(values[sp][n], depths.get(sp, {}).get(n), edges[sp]))]
+             for n in names])
     csv_tables["data/budget.csv"] = (["layer", "system", "x_over_X0", "cumulative_X0", "x_over_lambda_I",
                                       "cumulative_lambda_I", "hadron_survival"],
                                      [[r["layer"], r["system"], r["x_over_X0"], r["cumulative_X0"], r["x_over_lambda_I"],
@@ -238,7 +271,8 @@ def make_report(spec: Spec, progress=None, cache_dir=None, workers: int = 1) -> 
         "csv_tables": csv_tables,
         "round_momenta_GeV_c": [p / 1e3 for p in charged.ROUND_MOMENTA],
         "round_table": round_table,
-        "validity_edges_GeV_c": {sp.key: charged.validity_edge_momentum(sp) / 1e3 for sp in spec.species},
+        "validity_edges_GeV_c": edges,
+        "momentum_grid_GeV_c": [spec.momentum.start / 1e3, spec.momentum.stop / 1e3],
         "species_labels": {sp.key: sp.label for sp in spec.species},
         "photon_energies_MeV": spec.photon_energy.values(),
         "layer_slugs": layer_slugs,
@@ -254,6 +288,7 @@ def make_report(spec: Spec, progress=None, cache_dir=None, workers: int = 1) -> 
         "tracking_scattering_curves": scattering,
         "shower_energy_keys": [f"{e / 1e3:g}" for e in spec.shower_energies],
         "csv_descriptions": {"data/reach.csv": "momentum each species needs to reach each layer",
+                             "data/cross.csv": "momentum each species needs to cross each layer on its own",
                              "data/tracking-scattering.csv": "Highland theta0 against momentum through the tracking volume, per species",
                              "data/budget.csv": "material budget and hadron survival per layer",
                              "data/photon-regimes.csv": "photon crossover energies element by element, Z = 1-98 (photoabsorption = Compton, Compton = pair conversion)",

@@ -214,6 +214,10 @@ def _material(ctx: Context, name: str, value, path) -> Material | None:
         for key in ("temperature", "pressure"):
             if key in value:
                 ctx.warn(path + (key,), f"'{key}' is used only for gases; ignored for a {state or 'condensed'} material")
+    conditions_text = index_conditions_text = ""
+    if is_gas:
+        conditions_text = (f"{value['temperature'] if 'temperature' in value else '20 degC (assumed)'}, "
+                           f"{value['pressure'] if 'pressure' in value else '1 atm (assumed)'}")
     index_ratio = 1.0
     if "index_conditions" in value:
         cond = value["index_conditions"]
@@ -229,6 +233,7 @@ def _material(ctx: Context, name: str, value, path) -> Material | None:
         if t_ref is None or p_ref is None:
             return None
         index_ratio = (pressure / p_ref) * (t_ref / temperature)
+        index_conditions_text = f"{cond.get('temperature', '20 degC')}, {cond.get('pressure', '1 atm')}"
     if density is None:
         if is_gas:
             density = matlib.ideal_gas_density(molar, temperature, pressure)
@@ -247,7 +252,8 @@ def _material(ctx: Context, name: str, value, path) -> Material | None:
                     density=density, state="gas" if is_gas else (state or "solid"), mean_excitation_eV=i_ev,
                     i_source=i_src, pair_energy_eV=pair if pair is not None else w_default, refractive_index=index,
                     density_effect=de, source=source, caveats=caveats, temperature_K=temperature,
-                    pressure_Pa=pressure, scintillator=scint, index_density_ratio=index_ratio)
+                    pressure_Pa=pressure, scintillator=scint, index_density_ratio=index_ratio,
+                    conditions_text=conditions_text, index_conditions_text=index_conditions_text)
 
 
 def _state_from_density(ctx: Context, name, value, kind, state, density, base, path):
