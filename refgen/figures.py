@@ -15,9 +15,13 @@ import numpy as np
 
 from .cache import content_key, process_pool
 
-# Okabe & Ito (2008) colour-blind-safe palette, in our own order.
-PALETTE = ["#0072B2", "#D55E00", "#009E73", "#CC79A7", "#E69F00", "#56B4E9", "#000000", "#F0E442"]
-DASHES = ["-", "--", "-.", ":", (0, (5, 1, 1, 1)), (0, (3, 1, 1, 1, 1, 1)), (0, (8, 2)), (0, (1, 1))]
+# Derived from Okabe & Ito (2008)'s colour-blind-safe palette, in our own order; its pale orange, sky blue and
+# yellow are replaced by darker tones so that every line has a contrast of at least 3:1 on white (WCAG 2.1 1.4.11).
+PALETTE = ["#0072B2", "#D55E00", "#009E73", "#AD4F8C", "#9E6B00", "#000000", "#5E3C99", "#8C564B"]
+DASHES = ["-", "--", "-.", (0, (6, 1.5, 1.5, 1.5, 1.5, 1.5)), (0, (10, 2)), (0, (3, 1, 1, 1, 1, 1)), (0, (5, 1.2)),
+          (0, (1.5, 1.2))]
+# The part of a curve outside its model's validity: a wide pale grey band, unlike any species line.
+LIMITED = {"color": "#c3c9d0", "linewidth": 4.5, "linestyle": "-", "solid_capstyle": "butt", "zorder": 1}
 STYLE = {
     "svg.hashsalt": "refgen", "svg.fonttype": "none", "font.family": ["DejaVu Sans", "sans-serif"], "font.size": 9,
     "axes.grid": True, "grid.color": "#d9dde2", "grid.linewidth": 0.6, "axes.edgecolor": "#59636e",
@@ -63,31 +67,115 @@ def to_svg(fig) -> bytes:
     return _METADATA.sub(b"", buf.getvalue())
 
 
-def species_curves(series: list[dict], xlabel: str, ylabel: str, edge_label: str, marks=()) -> bytes:
-    """Log-log curves per species; the part of limited validity is drawn thin and grey-dotted.
+def _log_ticks(axis) -> None:
+    """Log axis ticks at 1, 2, 5 x 10^n labelled as plain numbers, so values below 10 read directly."""
+    from matplotlib.ticker import FuncFormatter, LogLocator, NullFormatter
+    axis.set_major_locator(LogLocator(base=10, subs=(1.0, 2.0, 5.0)))
+    axis.set_major_formatter(FuncFormatter(lambda v, _: f"{v:g}" if 1e-3 <= v < 1e5 else f"$10^{{{math.log10(v):.0f}}}$"))
+    axis.set_minor_formatter(NullFormatter())
 
-    series: [{"label", "x", "y", "valid"}]; marks: [(x, y, text)] points to annotate (e.g. the minimum).
-    """
+
+def _legend(ax, **kw) -> None:
+    """The legend outside the axes on the right, so it never covers a curve."""
+    ax.legend(fontsize=7.5, loc="upper left", bbox_to_anchor=(1.01, 1.0), borderaxespad=0.0, **kw)
+
+
+def _draw_species(ax, series: list[dict]) -> bool:
+    """Each species' curve: valid part in its own style, the rest as the LIMITED band. True if any is limited."""
+    limited = False
+    for i, s in enumerate(series):
+        x, y, ok = np.asarray(s["x"], dtype=float), np.asarray(s["y"], dtype=float), np.asarray(s["valid"], dtype=bool)
+        y = np.where(y > 0, y, np.nan)
+        ax.plot(np.where(ok, x, np.nan), np.where(ok, y, np.nan), label=species_tex(s["label"]), zorder=3, **line_style(i))
+        if (~ok).any() and np.isfinite(y[~ok]).any():
+            edge = int(np.argmax(ok)) if ok.any() else len(ok) - 1
+            ax.plot(x[: edge + 1], y[: edge + 1], **LIMITED)
+            limited = True
+    return limited
+
+
+def species_curves(series: list[dict], xlabel: str, ylabel: str, edge_label: str, marks=(), ylim=None) -> bytes:
+    """Log-log curves per species; the part of limited validity is drawn as a pale grey band.
+
+    series: [{"label", "x", "y", "valid"}]; marks: [(x, y, text)] points named in the legend (e.g. the minimum);
+    ylim: (low, high) or None for the data's range."""
     plt = _plt()
     with plt.rc_context(STYLE):
         fig, ax = plt.subplots(figsize=(6.4, 4.0))
-        for i, s in enumerate(series):
-            x, y, ok = np.asarray(s["x"]), np.asarray(s["y"]), np.asarray(s["valid"], dtype=bool)
-            st = line_style(i)
-            ax.plot(np.where(ok, x, np.nan), np.where(ok, y, np.nan), label=species_tex(s["label"]), **st)
-            if (~ok).any():
-                edge = np.argmax(ok) if ok.any() else len(ok)
-                ax.plot(x[: edge + 1], y[: edge + 1], color=st["color"], linestyle=":", linewidth=0.8, alpha=0.6)
-        if any((~np.asarray(s["valid"], dtype=bool)).any() for s in series):
-            ax.plot([], [], color="#777777", linestyle=":", linewidth=0.8, label=edge_label)
+        if _draw_species(ax, series):
+            ax.plot([], [], label=edge_label, **LIMITED)
         for x, y, text in marks:
-            ax.plot([x], [y], marker="o", color="#333333", markersize=3.5, linestyle="none")
-            ax.annotate(text, (x, y), textcoords="offset points", xytext=(4, -10), fontsize=7.5, color="#333333")
+            ax.plot([x], [y], marker="o", color="#333333", markersize=4, linestyle="none", label=text, zorder=4)
         ax.set_xscale("log")
         ax.set_yscale("log")
+        if ylim:
+            ax.set_ylim(*ylim)
+        _log_ticks(ax.yaxis)
         ax.set_xlabel(xlabel)
         ax.set_ylabel(ylabel)
-        ax.legend(fontsize=7.5, loc="upper left", bbox_to_anchor=(1.01, 1.0))
+        _legend(ax)
+        return to_svg(fig)
+
+
+def dedx_figure(series: list[dict], minimum: tuple[float, float, str], edge_label: str) -> bytes:
+    """Collision (ionisation) energy loss per species against momentum, in two panels: log-log over the
+    species' valid range, and a linear zoom on the minimum and the relativistic rise. minimum: (p, dE/dx, text)."""
+    plt = _plt()
+    with plt.rc_context(STYLE):
+        fig, (top, low) = plt.subplots(2, 1, figsize=(6.4, 5.6), sharex=True, gridspec_kw={"height_ratios": [3, 2]})
+        y_min = minimum[1]
+        peak = max(float(np.nanmax(np.where(np.asarray(s["valid"], bool), s["y"], np.nan))) for s in series
+                   if np.asarray(s["valid"], bool).any())
+        for ax in (top, low):
+            limited = _draw_species(ax, series)
+            ax.plot([minimum[0]], [y_min], marker="o", color="#333333", markersize=4, linestyle="none", zorder=4,
+                    label=minimum[2] if ax is top else None)
+        if limited:
+            top.plot([], [], label=edge_label, **LIMITED)
+        top.set_xscale("log")
+        top.set_yscale("log")
+        top.set_ylim(0.7 * y_min, 1.6 * max(peak, 3 * y_min))
+        _log_ticks(top.yaxis)
+        top.set_ylabel("collision dE/dx (MeV cm²/g)")
+        low.set_ylim(0.9 * y_min, 2.0 * y_min)
+        low.set_ylabel("linear zoom (MeV cm²/g)")
+        low.set_xlabel("momentum (GeV/c)")
+        _legend(top)
+        return to_svg(fig)
+
+
+LOSS_PARTS = (("total", "#000000", "-", 1.8), ("collision", "#0072B2", "--", 1.5), ("radiative", "#D55E00", "-.", 1.5))
+
+
+def total_loss_figure(series: list[dict]) -> bytes:
+    """Collision, radiative and total energy loss against momentum, one panel per species with radiative losses
+    (the same y axis in all panels). series: [{"label", "x", "collision", "radiative", "total", "valid"}]."""
+    plt = _plt()
+    n = len(series)
+    cols = min(n, 3)
+    rows = (n + cols - 1) // cols
+    with plt.rc_context(STYLE):
+        fig, axes = plt.subplots(rows, cols, figsize=(2.4 * cols + 1.6, 2.6 * rows + 0.4), sharex=True, sharey=True,
+                                 squeeze=False)
+        floor = min(float(np.nanmin(np.where(np.asarray(s["valid"], bool), s["collision"], np.nan))) for s in series)
+        for ax, s in zip(axes.flat, series):
+            ok = np.asarray(s["valid"], dtype=bool)
+            x = np.where(ok, np.asarray(s["x"], dtype=float), np.nan)
+            for key, colour, dash, lw in LOSS_PARTS:
+                y = np.asarray(s[key], dtype=float)
+                ax.plot(x, np.where(y > 0, y, np.nan), color=colour, linestyle=dash, linewidth=lw, label=key)
+            ax.set_title(species_tex(s["label"]), fontsize=9)
+            ax.set_xscale("log")
+            ax.set_yscale("log")
+        for ax in list(axes.flat)[n:]:
+            ax.set_visible(False)
+        axes[0, 0].set_ylim(bottom=0.5 * floor)
+        _log_ticks(axes[0, 0].yaxis)
+        for ax in axes[-1]:
+            ax.set_xlabel("momentum (GeV/c)")
+        for ax in axes[:, 0]:
+            ax.set_ylabel("energy loss (MeV cm²/g)")
+        _legend(axes[0, cols - 1])
         return to_svg(fig)
 
 
@@ -295,25 +383,32 @@ def angle_figure(p_gev, series: list[dict], saturated_mrad: float) -> bytes:
 
 
 def windows_figure(windows: list[dict], labels: dict, p_range: tuple[float, float]) -> bytes:
-    """Threshold-mode identification windows: one horizontal band per species pair on a log momentum axis."""
+    """Threshold-mode identification windows between neighbouring species groups: for each group that lights
+    up, the window up to the next heavier group's threshold (wider windows against heavier species are unions
+    of these and are listed in the page's table). One horizontal band per window on a log momentum axis."""
     plt = _plt()
+    nearest = {}
+    for w in windows:
+        if w["radiates"] not in nearest or w["to_GeV_c"] < nearest[w["radiates"]]["to_GeV_c"]:
+            nearest[w["radiates"]] = w
+    shown = list(nearest.values())
     with plt.rc_context(STYLE):
-        height = max(1.8, 0.28 * len(windows) + 0.9)
-        fig, ax = plt.subplots(figsize=(6.4, height))
-        keys = list(dict.fromkeys(w["radiates"] for w in windows))
-        for row, w in enumerate(windows):
-            st = line_style(keys.index(w["radiates"]))
-            ax.barh(row, w["to_GeV_c"] - w["from_GeV_c"], left=w["from_GeV_c"], height=0.62, color=st["color"],
-                    alpha=0.35, edgecolor=st["color"], linewidth=1.0, hatch="///" if keys.index(w["radiates"]) % 2 else None)
+        fig, ax = plt.subplots(figsize=(6.4, max(1.6, 0.32 * len(shown) + 0.9)))
+        for row, w in enumerate(shown):
+            colour = PALETTE[row % len(PALETTE)]
+            ax.barh(row, w["to_GeV_c"] - w["from_GeV_c"], left=w["from_GeV_c"], height=0.6, color=colour, alpha=0.85,
+                    edgecolor=colour, linewidth=1.0)
             if w.get("efficient_from_GeV_c"):
-                ax.plot([w["efficient_from_GeV_c"]], [row], marker="|", markersize=9, color="#222222")
-        ax.set_yticks(range(len(windows)))
+                ax.plot([w["efficient_from_GeV_c"]], [row], marker="|", markersize=11, markeredgewidth=2,
+                        color="#ffffff" if w["efficient_from_GeV_c"] > w["from_GeV_c"] * 1.02 else "#000000")
+        ax.set_yticks(range(len(shown)))
         ax.set_yticklabels([f"{', '.join(species_tex(labels[k]) for k in w['radiates_all'])} lit, "
-                            f"{', '.join(species_tex(labels[k]) for k in w['silent_all'])} dark" for w in windows], fontsize=7)
+                            f"{', '.join(species_tex(labels[k]) for k in w['silent_all'])} dark" for w in shown], fontsize=8)
         ax.invert_yaxis()
         ax.set_xscale("log")
         ax.set_xlim(*p_range)
-        ax.set_xlabel("momentum (GeV/c)   (| : lighter species gives ≥ 3 photoelectrons)")
+        ax.set_xlabel("momentum (GeV/c); axis ends = ends of the momentum grid; | : lighter species gives ≥ 3 photoelectrons",
+                      fontsize=8)
         ax.grid(axis="y", visible=False)
         return to_svg(fig)
 

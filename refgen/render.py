@@ -96,7 +96,7 @@ def format_probability(p, digits: int = 3) -> str:
         return "1"
     if 1 - p < PROBABILITY_FLOOR:
         return "&gt; 1 − 10⁻⁶"
-    if 1 - p < 10 ** -(digits - 1):
+    if round(p, digits) >= 1:  # would read as a false 1.00
         return f"1 − {format_number(1 - p, 2)}"
     return format_number(p, digits)
 
@@ -228,22 +228,31 @@ def _job(name: str, *args) -> tuple:
 
 
 def material_figures(report: dict, name: str) -> dict[str, tuple]:
-    """The dE/dx and range figures of one material."""
+    """The collision dE/dx, total-loss (species with radiative losses) and range figures of one material."""
     slug = report["material_slugs"][name]
     labels = report["species_labels"]
-    dedx, rng = [], []
+    dedx, rng, total = [], [], []
     for (mat, sp), c in report["curves"].items():
         if mat != name:
             continue
-        dedx.append({"label": labels[sp], "x": c["momentum_GeV_c"], "y": c["dedx_MeV_cm2_g"], "valid": c["valid"]})
-        rng.append({"label": labels[sp], "x": c["momentum_GeV_c"], "y": c["csda_range_g_cm2"], "valid": c["valid"]})
+        dedx.append({"label": labels[sp], "x": c["momentum_GeV_c"], "y": c["collision_MeV_cm2_g"], "valid": c["valid"]})
+        rng.append({"label": labels[sp], "x": c["momentum_GeV_c"], "y": c["csda_range_g_cm2"],
+                    "valid": c["valid"] & ~c["showers"]})
+        ok = c["valid"]
+        if np.any(c["radiative_MeV_cm2_g"][ok] >= 0.01 * c["collision_MeV_cm2_g"][ok]):
+            total.append({"label": labels[sp], "x": c["momentum_GeV_c"], "collision": c["collision_MeV_cm2_g"],
+                          "radiative": c["radiative_MeV_cm2_g"], "total": c["dedx_MeV_cm2_g"], "valid": ok})
     mi = report["key_numbers"]["materials"][name]["min_ionization"]
-    mark = [(mi["beta_gamma"] * 0.1056583755, mi["dedx_MeV_cm2_g"], f"muon minimum {mi['dedx_MeV_cm2_g']:.3f} MeV cm²/g")]
-    edge = "limited validity (Bethe below βγ = 0.05; electrons below 10 keV)"
-    return {
-        f"fig/dedx-{slug}.svg": _job("species_curves", dedx, "momentum (GeV/c)", "mass stopping power (MeV cm²/g)", edge, mark),
+    mark = (mi["beta_gamma"] * 0.1056583755, mi["dedx_MeV_cm2_g"],
+            f"muon minimum: {mi['dedx_MeV_cm2_g']:.3f} MeV cm²/g\nat βγ = {mi['beta_gamma']:.2f}")
+    edge = "limited validity\n(Bethe below βγ = 0.05;\nelectrons below 10 keV)"
+    out = {
+        f"fig/dedx-{slug}.svg": _job("dedx_figure", dedx, mark, edge),
         f"fig/range-{slug}.svg": _job("species_curves", rng, "momentum (GeV/c)", "CSDA range (g/cm²)", edge),
     }
+    if total:
+        out[f"fig/dedx-total-{slug}.svg"] = _job("total_loss_figure", total)
+    return out
 
 
 def reach_figure(report: dict) -> tuple:
