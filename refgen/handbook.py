@@ -65,7 +65,9 @@ def reach_rows(kn: dict, report: dict, table: str, layers: list[str] | None = No
     """Rows of a reach or crossing table: per layer, one cell per species (reach_cell)."""
     species = species if species is not None else list(kn["particles"])
     layers = layers if layers is not None else [l["name"] for l in kn["layers"]]
-    return [{"layer": n, "cells": [reach_cell(kn, report, table, sp, n) for sp in species]} for n in layers]
+    system = {l["name"]: l["system"] for l in kn["layers"]}
+    return [{"layer": n, "system": system[n], "species": species,
+             "cells": [reach_cell(kn, report, table, sp, n) for sp in species]} for n in layers]
 
 
 def reach_cells(kn: dict, report: dict, table: str) -> dict:

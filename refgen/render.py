@@ -101,6 +101,16 @@ def format_probability(p, digits: int = 3) -> str:
     return format_number(p, digits)
 
 
+def format_key_number(value, digits: int = 4) -> str:
+    """Any key number (changes page): as format_number, but a magnitude below 1e-6 reads '< 10⁻⁶' (with its
+    sign), so no page shows an exponent below -6."""
+    if isinstance(value, str):
+        return str(escape(value))
+    if isinstance(value, float) and math.isfinite(value) and 0 < abs(value) < PROBABILITY_FLOOR:
+        return "&lt; 10⁻⁶" if value > 0 else "&gt; −10⁻⁶"
+    return format_number(value, digits)
+
+
 def format_grid_momentum(gev, grid, digits: int = 3) -> str:
     """A momentum that may sit on an edge of the spec's momentum grid (lo, hi in GeV/c): an edge is a bound of
     the answer, not a result, so it is shown as '≤ lo' or '≥ hi'."""
@@ -161,6 +171,7 @@ def environment(cache_dir=None) -> jinja2.Environment:
     env.filters["distance"] = lambda v, d=3, exact=False: Markup(format_length(v, d, exact))
     env.filters["mom"] = lambda v, d=3, exact=False: Markup(format_momentum(v, d, exact))
     env.filters["prob"] = lambda v, d=3: Markup(format_probability(v, d))
+    env.filters["keynum"] = lambda v, d=4: Markup(format_key_number(v, d))
     env.filters["pgrid"] = lambda v, grid, d=3: Markup(format_grid_momentum(v, grid, d))
     env.filters["species"] = lambda v: Markup(species_html(v))
     env.filters["percent"] = lambda v: Markup(format_percent(v))
@@ -371,7 +382,7 @@ def render_site(report: dict, build_info: dict, single: bool = False, workers: i
         html, headings = anchor_headings(env.get_template(template).render(**common, **ctx))
         files[out] = html.encode("utf-8")
         index.extend({"t": f"{text} — {ctx['title']}" if level > 1 else text, "u": f"{out}#{anchor}" if level > 1 else out,
-                      "k": f"{ctx['title']} heading"} for level, anchor, text in headings)
+                      "k": ctx["title"], "h": 1} for level, anchor, text in headings)
     files["data/key-numbers.json"] = json_bytes(kn)
     files["static/search-index.js"] = ("window.REFGEN_INDEX = " + json.dumps(index, sort_keys=True, ensure_ascii=False)
                                        + ";\n").encode("utf-8")

@@ -8,8 +8,11 @@
     var hay = (entry.t + " " + entry.k).toLowerCase();
     for (var i = 0; i < words.length; i++) { if (hay.indexOf(words[i]) < 0) { return -1; } }
     var title = entry.t.toLowerCase();
-    var name = title.slice(title.indexOf(": ") + 2);
     var query = words.join(" ");
+    if (entry.h) {  // a page heading: below the named things, above loose keyword matches
+      return title.indexOf(query) === 0 ? 2.5 : 1.5;
+    }
+    var name = title.slice(title.indexOf(": ") + 2);
     if (name === query) { return 4; }
     if (name.indexOf(query) === 0) { return 3; }
     return title.indexOf(words[0]) >= 0 ? 2 : 1;

@@ -9,7 +9,10 @@ import shutil
 import pytest
 
 from refgen.cli import main
-from tests.conftest import DEMO
+from tests.conftest import DEMO, ROOT, SMALL
+
+ABSORBER = ROOT / "tests" / "specs" / "thick-absorber.yaml"
+MINIMAL_BASELINE = '{"schema": "refgen-key-numbers/1"}'
 
 CHROMIUM = shutil.which("chromium") or shutil.which("chromium-browser")
 REQUIRED = bool(os.environ.get("REFGEN_REQUIRE_BROWSER"))
@@ -30,11 +33,25 @@ def browser():
         b.close()
 
 
+def build_with_changes(spec, folder, *extra):
+    """Build a spec against a minimal baseline, so that the site has a changes page as well."""
+    baseline = folder / "baseline.json"
+    baseline.write_text(MINIMAL_BASELINE)
+    out = folder / "site"
+    assert main(["build", str(spec), "--out", str(out), "--quiet", "--baseline", str(baseline), *extra]) == 0
+    return out
+
+
 @pytest.fixture(scope="module")
 def site(tmp_path_factory):
-    out = tmp_path_factory.mktemp("browser") / "site"
-    assert main(["build", str(DEMO), "--out", str(out), "--quiet", "--single-file"]) == 0
-    return out
+    return build_with_changes(DEMO, tmp_path_factory.mktemp("browser"), "--single-file")
+
+
+@pytest.fixture(scope="module")
+def sites(site, tmp_path_factory):
+    """The two demo handbooks and the thick-absorber test spec's, each with a changes page."""
+    return {"kestrel": site, "tern": build_with_changes(SMALL, tmp_path_factory.mktemp("tern")),
+            "absorber": build_with_changes(ABSORBER, tmp_path_factory.mktemp("absorber"))}
 
 
 def test_every_page_loads_offline_without_errors(browser, site):
@@ -109,4 +126,84 @@ def test_script_in_spec_strings_is_inert(browser, tmp_path):
         assert page.evaluate("document.querySelectorAll('[onerror],[onload],[onclick],[onmouseover]').length") == 0
         assert page.evaluate("Array.from(document.querySelectorAll('a')).filter(a => a.href.startsWith('javascript')).length") == 0
         assert dialogs == []
+        page.close()
+
+
+def page_text(browser, path) -> str:
+    page = browser.new_page()
+    page.goto(path.as_uri())
+    page.wait_for_load_state("load")
+    text = page.inner_text("main")
+    page.close()
+    return text
+
+
+NUMBER = r"(\d+(?:\.\d+)?)(?:\s*×\s*10\s*([−-]?\d+))?"
+LENGTH_IN_CM = re.compile(NUMBER + r"\s*cm(?![²³⁻/\w])")
+EXPONENT = re.compile(r"×\s*10\s*([−-]?\d+)")
+
+
+def as_float(mantissa: str, exponent: str | None) -> float:
+    return float(mantissa) * 10 ** int(exponent.replace("−", "-")) if exponent else float(mantissa)
+
+
+@pytest.mark.parametrize("name", ["kestrel", "tern", "absorber"])
+def test_pages_show_readable_units_and_no_tiny_exponents(browser, sites, name):
+    for path in sorted(sites[name].glob("*.html")):
+        if path.name == "handbook.html":
+            continue
+        text = page_text(browser, path)
+        for m in LENGTH_IN_CM.finditer(text):
+            assert as_float(m.group(1), m.group(2)) >= 0.1, f"{path.name}: a length below 1 mm in cm: {m.group(0)!r}"
+        for m in EXPONENT.finditer(text):
+            assert int(m.group(1).replace("−", "-")) >= -6, f"{path.name}: exponent below -6: {m.group(0)!r}"
+
+
+@pytest.mark.parametrize("name", ["kestrel", "tern", "absorber"])
+def test_caution_on_changes_and_downloads_pages(browser, sites, name):
+    for page_name in ("changes.html", "downloads.html"):
+        page = browser.new_page()
+        page.goto((sites[name] / page_name).as_uri())
+        assert "not for radiation-protection" in page.inner_text(".caution"), (name, page_name)
+        page.close()
+
+
+@pytest.mark.parametrize("name", ["kestrel", "tern", "absorber"])
+def test_quick_reference_reach_table_is_not_empty(browser, sites, name):
+    page = browser.new_page()
+    page.goto((sites[name] / "quickref.html").as_uri())
+    rows = page.locator("#quick-reach tbody tr")
+    assert rows.count() > 0
+    assert all(rows.nth(i).locator("td").count() > 2 for i in range(rows.count()))
+    page.close()
+
+
+@pytest.mark.parametrize("name, layers", [("absorber", ["plane-3", "plane-4", "tile", "gas-chamber"]),
+                                          ("tern", ["paddle-3", "paddle-bottom"]),
+                                          ("kestrel", ["hadron-calorimeter", "muon-chamber-2"])])
+def test_electron_reach_behind_the_absorber_is_not_a_number(browser, sites, name, layers):
+    for page_name in ("charged.html", "quickref.html", "species-electron.html"):
+        page = browser.new_page()
+        page.goto((sites[name] / page_name).as_uri())
+        cells = page.locator('table.reach tr[data-layer] td[data-species="electron"]')
+        seen = 0
+        for i in range(cells.count()):
+            cell = cells.nth(i)
+            layer = cell.evaluate("td => td.parentElement.dataset.layer")
+            if layer in layers:
+                seen += 1
+                text = cell.inner_text()
+                assert "showers" in text and "X₀" in text and "/c" not in text, (name, page_name, layer, text)
+        assert seen > 0, (name, page_name)
+        page.close()
+
+
+def test_search_finds_headings_quantities_and_elements(browser, sites):
+    for name, query, expect in [("kestrel", "kaon threshold", "cherenkov-"), ("kestrel", "lead", "material-crystal"),
+                                ("tern", "lead", "material-lead"), ("kestrel", "quench", "charged.html")]:
+        page = browser.new_page()
+        page.goto((sites[name] / "index.html").as_uri())
+        page.fill("#search", query)
+        hrefs = page.eval_on_selector_all("#search-results a", "as => as.map(a => a.getAttribute('href'))")
+        assert any(h.startswith(expect) for h in hrefs), (name, query, hrefs)
         page.close()
