@@ -192,11 +192,13 @@ def tracking_scattering_curves(spec, x0s, tables) -> dict:
     NaN where the species cannot cross the tracking volume (it stops, or, for electrons, showers in it)."""
     volume = spec.tracking_volume()
     total = sum(spec.layer_depth(l, x0s) for l in volume)
-    slabs = [s for _, s in slab_sequence(volume)]
+    one = np.zeros(1, dtype=int)
+    steps = [(s.material, s.thickness * spec.materials[s.material].density, one)
+             for _, s in reversed(list(slab_sequence(volume)))]
     p = spec.momentum.values()
     out = {"momentum_GeV_c": p / 1e3, "x_over_X0": total}
     for sp in spec.species:
-        need = momentum_to_cross(spec, tables, sp, slabs) if slabs else 0.0
+        need = _momenta_gev(_walk_back(tables, sp, steps, np.zeros(1)), sp)[0]
         if need is None or total <= 0 or (sp.is_electron_like and total >= SHOWER_ONSET_X0):
             theta = np.full_like(p, np.nan)
         else:
