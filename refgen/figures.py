@@ -235,9 +235,7 @@ def profile_figure(t, series: list[dict], depth_x0: float) -> bytes:
         fig, ax = plt.subplots(figsize=(6.4, 3.8))
         for i, s in enumerate(series):
             ax.plot(t, s["y"], label=s["label"], **line_style(i))
-        ax.axvline(depth_x0, color="#444444", linewidth=1.0)
-        ax.annotate("back of the calorimeter", (depth_x0, ax.get_ylim()[1] * 0.95), xytext=(-4, 0),
-                    textcoords="offset points", ha="right", va="top", fontsize=7.5, color="#444444")
+        ax.axvline(depth_x0, color="#444444", linewidth=1.0, linestyle=(0, (1, 1.5)), label="back of the calorimeter")
         ax.set_xlabel("depth t (radiation lengths X$_0$)")
         ax.set_ylabel("(1/E) dE/dt (per X$_0$)")
         ax.legend(fontsize=7.5, loc="upper left", bbox_to_anchor=(1.01, 1.0))
@@ -371,9 +369,8 @@ def angle_figure(p_gev, series: list[dict], saturated_mrad: float) -> bytes:
         fig, ax = plt.subplots(figsize=(6.4, 3.8))
         for i, s in enumerate(series):
             ax.plot(p_gev, s["y"], label=species_tex(s["label"]), **line_style(i))
-        ax.axhline(saturated_mrad, color="#777777", linewidth=0.8, linestyle=":")
-        ax.annotate(f"β → 1: {saturated_mrad:.1f} mrad", (p_gev[0], saturated_mrad), xytext=(2, 3),
-                    textcoords="offset points", fontsize=7.5, color="#555555")
+        ax.axhline(saturated_mrad, color="#444444", linewidth=0.9, linestyle=(0, (1, 1.5)),
+                   label=f"β → 1: {saturated_mrad:.1f} mrad")
         ax.set_xscale("log")
         ax.set_ylim(0, saturated_mrad * 1.12)
         ax.set_xlabel("momentum (GeV/c)")
