@@ -6,6 +6,7 @@ from __future__ import annotations
 
 import functools
 import io
+import math
 import os
 import re
 from importlib import metadata
