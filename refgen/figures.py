@@ -68,11 +68,22 @@ def to_svg(fig) -> bytes:
     return _METADATA.sub(b"", buf.getvalue())
 
 
+def _tick_label(v: float, _pos=None) -> str:
+    """A log-axis tick: plain from 0.001 to 10^5, else m×10^e (10^e when m = 1)."""
+    if v <= 0:
+        return ""
+    if 1e-3 <= v < 1e5:
+        return f"{v:g}"
+    e = math.floor(math.log10(v) + 1e-9)
+    m = v / 10 ** e
+    return f"$10^{{{e}}}$" if abs(m - 1) < 1e-6 else f"${m:g}\\times10^{{{e}}}$"
+
+
 def _log_ticks(axis) -> None:
     """Log axis ticks at 1, 2, 5 x 10^n labelled as plain numbers, so values below 10 read directly."""
     from matplotlib.ticker import FuncFormatter, LogLocator, NullFormatter
     axis.set_major_locator(LogLocator(base=10, subs=(1.0, 2.0, 5.0)))
-    axis.set_major_formatter(FuncFormatter(lambda v, _: f"{v:g}" if 1e-3 <= v < 1e5 else f"$10^{{{math.log10(v):.0f}}}$"))
+    axis.set_major_formatter(FuncFormatter(_tick_label))
     axis.set_minor_formatter(NullFormatter())
 
 
@@ -200,18 +211,23 @@ def _layer_axis(ax, layers: list[str], xlabel: str) -> None:
     ax.set_xlabel(xlabel if k == 1 else f"{xlabel}; every {k}th of {len(layers)} layers named")
 
 
-def reach_figure(layers: list[str], series: list[dict]) -> bytes:
-    """Momentum each species needs to reach each layer: one step line per species over the stack."""
+def reach_figure(layers: list[str], series: list[dict], shower_from: int | None = None, onset_x0: float = 1.0) -> bytes:
+    """Momentum each species needs to reach each layer: one line per species over the stack. Layers from index
+    ``shower_from`` on, where electrons and positrons shower, are shaded and have no electron points."""
     plt = _plt()
     with plt.rc_context(STYLE):
         fig, ax = plt.subplots(figsize=(6.8, 4.2))
         idx = np.arange(len(layers))
+        if shower_from is not None:
+            ax.axvspan(shower_from - 0.5, len(layers) - 0.5, color="#f3e6d6", linewidth=0, zorder=0,
+                       label=f"e$^\\pm$ shower here\n(≥ {onset_x0:g} X$_0$ in front)")
         for i, s in enumerate(series):
             y = np.array([np.nan if v is None or v <= 0 else v for v in s["y"]], dtype=float)
             ax.plot(idx, y, marker="os^vD<>p"[i % 8], markersize=3.5 if len(layers) <= MAX_LAYER_MARKERS else 0, label=species_tex(s["label"]), **line_style(i))
         _layer_axis(ax, layers, "layer reached (front face)")
+        _log_ticks(ax.yaxis)
         ax.set_ylabel("momentum needed at the interaction point (GeV/c)")
-        ax.legend(fontsize=7.5, loc="upper left", bbox_to_anchor=(1.01, 1.0))
+        _legend(ax)
         return to_svg(fig)
 
 

@@ -270,7 +270,10 @@ def reach_figure(report: dict) -> tuple:
     kn = report["key_numbers"]
     names = [l["name"] for l in kn["layers"]]
     series = [{"label": report["species_labels"][sp], "y": [row[n] for n in names]} for sp, row in kn["reach_momentum_GeV_c"].items()]
-    return _job("reach_figure", names, series)
+    showers = kn["electron_showers"]
+    behind = {n for depths in showers["reach_depth_X0"].values() for n in depths}
+    first = next((i for i, n in enumerate(names) if n in behind), None)
+    return _job("reach_figure", names, series, first, showers["onset_X0"])
 
 
 def calorimetry_figures(report: dict) -> dict[str, tuple]:
