@@ -207,21 +207,29 @@ def search_index(kn: dict, report: dict) -> list[dict]:
 MAX_TABLE_LAYERS = 150  # per-layer tables of longer stacks list a thinned selection; the CSVs keep every layer
 
 
-def table_layers(kn: dict) -> dict:
-    """The layers that per-layer tables list. A stack of up to MAX_TABLE_LAYERS layers is listed whole. A longer
-    one lists every k-th layer (about MAX_TABLE_LAYERS rows), the first and last layer of each system and the
-    last layer of the stack, with a note saying so: thousands of rows are neither readable nor cheap, and
-    every layer stays in the CSV files. ``rows`` pairs each listed layer's index with its key numbers."""
+def page_view(kn: dict) -> tuple[dict, str | None]:
+    """(the key numbers as the pages list them, a note or None). A stack of up to MAX_TABLE_LAYERS layers is
+    listed whole. A longer one is listed thinned, since thousands of rows are neither readable nor cheap:
+    every k-th layer (about MAX_TABLE_LAYERS rows), the first and last layer of each system, the outermost
+    sensitive layer of each system and the last layer of the stack. The lists aligned with the layers are
+    thinned alike; totals, the to-scale strips, the figures, the CSVs and key-numbers.json keep every layer."""
     layers = kn["layers"]
     n = len(layers)
     if n <= MAX_TABLE_LAYERS:
-        return {"rows": [{"i": i, "l": l} for i, l in enumerate(layers)], "note": None}
+        return kn, None
     k = -(-n // MAX_TABLE_LAYERS)
     keep = set(range(0, n, k)) | {n - 1}
     for kind in {l["system"] for l in layers}:
         where = [i for i, l in enumerate(layers) if l["system"] == kind]
-        keep |= {where[0], where[-1]}
+        active = [i for i in where if layers[i]["active"]]
+        keep |= {where[0], where[-1]} | ({active[-1]} if active else set())
     shown = sorted(keep)
-    return {"rows": [{"i": i, "l": layers[i]} for i in shown],
-            "note": (f"{len(shown)} of the stack's {n} layers are listed: every {k}th, and the first and last layer "
-                     "of each system. Every layer is in the CSV files on the downloads page.")}
+    names = {layers[i]["name"] for i in shown}
+    view = dict(kn, layers=[layers[i] for i in shown],
+                hadron_survival=[kn["hadron_survival"][i] for i in shown],
+                material_budget=dict(kn["material_budget"], rows=[kn["material_budget"]["rows"][i] for i in shown]),
+                tracking_scattering=[r for r in kn["tracking_scattering"] if r["layer"] in names])
+    return view, (f"This stack has {n} layers; the tables list {len(shown)} of them: every {k}th, and the first, the "
+                  "last and the outermost sensitive layer of each system. Every layer is in the figures and in the "
+                  "CSV files on the downloads page.")
+

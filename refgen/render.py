@@ -337,16 +337,17 @@ def render_site(report: dict, build_info: dict, single: bool = False, workers: i
     jobs.update(signal_figures(report))
     drawer = Drawer(jobs, workers=workers, cache_dir=cache_dir)
     env = environment(Path(cache_dir).parent / "templates" if cache_dir is not None else None)
-    kn = report["key_numbers"]
+    full_kn = report["key_numbers"]
+    kn, layers_note = handbook.page_view(full_kn)
     systems = handbook.systems(kn, report)
     report = dict(report, has_changes=report.get("changes") is not None)
-    common = {"kn": kn, "report": report, "build": build_info, "slugs": report["material_slugs"],
+    common = {"kn": kn, "layers_note": layers_note, "report": report, "build": build_info, "slugs": report["material_slugs"],
               "summary_html": markdown_safe(report["summary_markdown"]), "systems": systems,
               "titles": handbook.SYSTEM_TITLES, "grid": report["momentum_grid_GeV_c"], "notes": handbook.reach_notes(),
-              "reach_cells": handbook.reach_cells(kn, report, "reach"), "layer_rows": handbook.table_layers(kn)}
+              "reach_cells": handbook.reach_cells(kn, report, "reach")}
     files: dict[str, bytes] = {}
     pages = [("index.html", "index.html", {"title": kn["experiment"]["name"], "page": "index",
-                                           "strips": handbook.stack_strips(kn)}),
+                                           "strips": handbook.stack_strips(full_kn)}),
              ("quickref.html", "quickref.html", {"title": "Quick reference", "page": "quickref",
                                                  "q": handbook.quick_reference(kn, report)}),
              ("methods.html", "methods.html", {"title": "Methods and validity", "page": "methods",
@@ -380,13 +381,13 @@ def render_site(report: dict, build_info: dict, single: bool = False, workers: i
         pages.append((f"material-{slug}.html", "material.html",
                       {"title": f"Material: {name}", "page": "material", "name": name, "m": kn["materials"][name],
                        "rows": report["round_table"][name]}))
-    index = handbook.search_index(kn, report)
+    index = handbook.search_index(full_kn, report)
     for out, template, ctx in pages:
         html, headings = anchor_headings(env.get_template(template).render(**common, **ctx))
         files[out] = html.encode("utf-8")
         index.extend({"t": f"{text} — {ctx['title']}" if level > 1 else text, "u": f"{out}#{anchor}" if level > 1 else out,
                       "k": ctx["title"], "h": 1} for level, anchor, text in headings)
-    files["data/key-numbers.json"] = json_bytes(kn)
+    files["data/key-numbers.json"] = json_bytes(full_kn)
     files["static/search-index.js"] = ("window.REFGEN_INDEX = " + json.dumps(index, sort_keys=True, ensure_ascii=False)
                                        + ";\n").encode("utf-8")
     for path, (header, rows) in report["csv_tables"].items():

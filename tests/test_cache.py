@@ -72,11 +72,15 @@ def test_reach_walk_agrees_with_crossing_and_rises():
 
 
 def test_long_stack_tables_are_thinned():
-    from refgen.handbook import MAX_TABLE_LAYERS, table_layers
-    layers = [{"name": f"p{i}", "system": "tracking" if i < 2000 else "muon"} for i in range(3000)]
-    shown = table_layers({"layers": layers})
-    indices = [r["i"] for r in shown["rows"]]
-    assert len(indices) <= MAX_TABLE_LAYERS + 5
-    assert {0, 1999, 2000, 2999} <= set(indices)
-    assert "3000 layers" in shown["note"]
-    assert table_layers({"layers": layers[:10]})["note"] is None
+    from refgen.handbook import MAX_TABLE_LAYERS, page_view
+    layers = [{"name": f"p{i}", "system": "tracking" if i < 2000 else "muon", "active": i % 3 == 0} for i in range(3000)]
+    kn = {"layers": layers, "hadron_survival": [{"layer": l["name"]} for l in layers],
+          "material_budget": {"rows": [{"layer": l["name"]} for l in layers], "per_system": {}},
+          "tracking_scattering": [{"layer": l["name"]} for l in layers[:2000]]}
+    view, note = page_view(kn)
+    names = [l["name"] for l in view["layers"]]
+    assert len(names) <= MAX_TABLE_LAYERS + 6
+    assert {"p0", "p1998", "p1999", "p2000", "p2997", "p2999"} <= set(names)
+    assert [r["layer"] for r in view["hadron_survival"]] == names == [r["layer"] for r in view["material_budget"]["rows"]]
+    assert "3000 layers" in note and len(kn["layers"]) == 3000
+    assert page_view(dict(kn, layers=layers[:10])) == (dict(kn, layers=layers[:10]), None)
