@@ -161,6 +161,9 @@ class Layer:
     scintillator: dict | None = None
     resolution_cm: float | None = None  # point resolution in the bending direction of a measuring layer, cm
     threshold: Threshold | None = None
+    timing_ps: float | None = None  # arrival-time resolution of a timing layer, ps
+    samples: int | None = None  # energy-loss samples for a truncated mean (gaseous tracking layers)
+    truncation: float | None = None  # kept fraction of the samples (set when samples is)
 
     @property
     def is_sampling(self) -> bool:
@@ -236,6 +239,7 @@ class Spec:
     materials: dict[str, Material]
     layers: tuple[Layer, ...]
     radiators: tuple[Radiator, ...] = ()
+    start_time_ps: float | None = None  # event start-time resolution, ps; None: the start is taken as exact
     notes: tuple[str, ...] = ()
     spec_hash: str = ""
     source_name: str = ""
