@@ -21,12 +21,19 @@ from .physics.identification import (SEPARATION_SIGMAS, combined_time_resolution
                                      tof_separation_momentum, truncated_mean_resolution,
                                      truncated_mean_resolution_valid, TRUNCATION_VALID)
 from .physics.stopping import BETHE_VALID_MIN_BG
+from .physics.straggling import landau_xi
 from .radiators import _index_function
 
 POINTS_PER_DECADE = 100
 ATM_PA = 101325.0
 DEFAULT_TRUNCATION = 0.7  # common practice: keep the lowest 70 % of the samples
 GAP = "gap"
+CSV_DESCRIPTIONS = {
+    "data/identification/time-of-flight.csv": "flight-time difference and separation per timing layer, species pair and momentum",
+    "data/identification/energy-loss.csv": "most probable loss per sample and truncated-mean separation per sampling layer, pair and momentum",
+    "data/identification/cherenkov.csv": "Cherenkov separation (threshold counting or ring angle) per radiator, pair and momentum",
+    "data/identification/coverage.csv": "momentum ranges separated at 3 sigma per species pair and technique, and the gaps",
+}
 
 
 def grid(spec) -> np.ndarray:
@@ -120,8 +127,9 @@ def time_of_flight(spec, p, reach: dict, groups) -> tuple[dict, dict, dict]:
             for x in light:
                 for y in heavy:
                     pairs[layer.name][pair_key(x, y)] = entry
+            exact = [] if upto_reported is None else [[start * 1e3, min(upto_reported * 1e3, float(p[-1]))]]
             curves[layer.name][(a.key, b.key)] = {"n_sigma": n_sigma, "time_difference_ps": dt, "path_a_cm": path_a,
-                                                  "path_b_cm": path_b}
+                                                  "path_b_cm": path_b, "ranges": exact}
     return layers, pairs, curves
 
 
@@ -173,6 +181,7 @@ def energy_loss(spec, p, reach: dict, groups, media) -> tuple[dict, dict, dict, 
                               "resolution_note": None if valid_fit else
                               (f"outside the range of the Allison-Cobb fit (N 10-1000, x P 0.1-100 cm atm, truncation "
                                f"{TRUNCATION_VALID[0]:g}-{TRUNCATION_VALID[1]:g}): indicative only")}
+        layers[layer.name].update(most_probable_rise(medium, areal))
         mpv, ok = {}, {}
         for sp in spec.species:
             mpv[sp.key] = sample_most_probable_loss(p, sp.mass, sp.charge, medium, areal)
@@ -193,6 +202,17 @@ def energy_loss(spec, p, reach: dict, groups, media) -> tuple[dict, dict, dict, 
                     pairs[layer.name][pair_key(x_, y)] = entry
             curves[layer.name][(a.key, b.key)] = {"n_sigma": n_sigma}
     return layers, pairs, curves, losses
+
+
+def most_probable_rise(medium, areal: float) -> dict:
+    """The relativistic rise of the most probable loss per sample (plateau over minimum, for z = 1) and xi/I at
+    the minimum: Landau's theory assumes xi much larger than the atomic binding energies, which thin gas samples
+    do not meet, so the rise it gives is an upper estimate."""
+    bg = np.geomspace(0.5, 1e5, 800)
+    loss = sample_most_probable_loss(bg, 1.0, 1, medium, areal)
+    i = int(np.argmin(loss))
+    return {"most_probable_rise": float(loss[-1] / loss[i]), "minimum_beta_gamma": float(bg[i]),
+            "xi_over_I_at_minimum": float(landau_xi(bg[i], 1, medium, areal) * 1e6 / medium.i_ev)}
 
 
 # --- Cherenkov ----------------------------------------------------------------------------------------------
@@ -238,29 +258,46 @@ def technique_curves(tof_curves, dedx_curves, ckov_curves, dedx_layers) -> list[
     return out
 
 
-def coverage(p, techniques, a_key: str, b_key: str) -> tuple[list, list, list]:
-    """(technique ranges [from, to, label], gaps [from, to], all entries sorted) for one group pair, GeV/c."""
+def merge(ranges) -> list[list[float]]:
+    """The union of [from, to] ranges, as disjoint sorted ranges."""
+    out: list[list[float]] = []
+    for lo, hi in sorted((r[0], r[1]) for r in ranges):
+        if out and lo <= out[-1][1]:
+            out[-1][1] = max(out[-1][1], hi)
+        else:
+            out.append([lo, hi])
+    return out
+
+
+def coverage(p, techniques, a_key: str, b_key: str) -> tuple[list, list]:
+    """(technique ranges [from, to, label], gaps [from, to]) for one group pair, in GeV/c over the grid. A curve
+    that carries exact 'ranges' (time of flight: the analytic root) uses them; the others are read off their
+    n_sigma curves."""
     ranges = []
-    best = np.full_like(p, -np.inf)
-    for label, _, c in techniques:
-        ns = c[(a_key, b_key)]["n_sigma"]
-        best = np.fmax(best, np.where(np.isfinite(ns), ns, -np.inf))
-        ranges += [[lo / 1e3, hi / 1e3, label] for lo, hi in separated_ranges(p, ns)]
-    covered = separated_ranges(p, best)
-    gaps, edge = [], float(p[0])
-    for lo, hi in covered:
+    for label, _, curves in techniques:
+        c = curves[(a_key, b_key)]
+        found = c["ranges"] if "ranges" in c else separated_ranges(p, c["n_sigma"])
+        ranges += [[lo / 1e3, hi / 1e3, label] for lo, hi in found]
+    gaps, edge = [], float(p[0]) / 1e3
+    for lo, hi in merge(ranges):
         if lo > edge:
-            gaps.append([edge / 1e3, lo / 1e3])
-        edge = hi
-    if edge < p[-1]:
-        gaps.append([edge / 1e3, float(p[-1]) / 1e3])
-    entries = sorted(ranges + [[lo, hi, GAP] for lo, hi in gaps], key=lambda e: (e[0], e[1], e[2]))
-    return ranges, gaps, entries
+            gaps.append([edge, lo])
+        edge = max(edge, hi)
+    if edge < float(p[-1]) / 1e3:
+        gaps.append([edge, float(p[-1]) / 1e3])
+    return sorted(ranges, key=lambda r: (r[0], r[1], r[2])), gaps
+
+
+def _shown(lo: float, hi: float, p_range: tuple[float, float], **extra) -> dict:
+    """A range for the page, saying whether it runs into an end of the momentum range considered."""
+    return {"from": lo, "to": hi, "open_low": lo <= p_range[0] * (1 + 1e-9),
+            "open_high": hi >= p_range[1] * (1 - 1e-9), **extra}
 
 
 def identification(spec, media, reach: dict) -> tuple[dict, dict, dict]:
     """(key numbers, page and figure data, CSV tables) of the identification section."""
     p = grid(spec)
+    p_range = (float(p[0]) / 1e3, float(p[-1]) / 1e3)
     groups = species_groups(spec)
     tof_layers, tof_pairs, tof_curves = time_of_flight(spec, p, reach, groups)
     dedx_layers, dedx_pairs, dedx_curves, losses = energy_loss(spec, p, reach, groups, media)
@@ -268,23 +305,34 @@ def identification(spec, media, reach: dict) -> tuple[dict, dict, dict]:
     techniques = technique_curves(tof_curves, dedx_curves, ckov_curves, dedx_layers)
     cover, rows = {}, []
     for light, heavy in itertools.combinations(groups, 2):
-        ranges, gaps, entries = coverage(p, techniques, light[0].key, heavy[0].key)
+        ranges, gaps = coverage(p, techniques, light[0].key, heavy[0].key)
+        entries = sorted(ranges + [[lo, hi, GAP] for lo, hi in gaps], key=lambda e: (e[0], e[1], e[2]))
         for x in light:
             for y in heavy:
                 cover[pair_key(x, y)] = entries
-        rows.append({"light": [s.key for s in light], "heavy": [s.key for s in heavy], "ranges": ranges,
-                     "gaps": gaps, "by_technique": [{"label": label, "family": family,
-                                                     "ranges": [r[:2] for r in ranges if r[2] == label]}
-                                                    for label, family, _ in techniques],
+        rows.append({"light": [s.key for s in light], "heavy": [s.key for s in heavy],
+                     "ranges": [_shown(lo, hi, p_range, technique=t) for lo, hi, t in ranges],
+                     "gaps": [_shown(lo, hi, p_range) for lo, hi in gaps],
+                     "covered": [_shown(lo, hi, p_range) for lo, hi in merge(ranges)],
+                     "lanes": [{"label": label, "family": family,
+                                "ranges": [r[:2] for r in ranges if r[2] == label]} for label, family, _ in techniques],
                      "crossovers": sorted({c for pairs in dedx_pairs.values()
                                            for c in pairs[pair_key(light[0], heavy[0])]["crossover_GeV_c"]})})
     key_numbers = {"time_of_flight": tof_pairs, "energy_loss": dedx_pairs, "coverage": cover,
                    "timing_layers": tof_layers, "sampling_layers": dedx_layers, "radiators": ckov_facts,
-                   "momentum_range_GeV_c": [float(p[0]) / 1e3, float(p[-1]) / 1e3],
-                   "separation_sigmas": SEPARATION_SIGMAS}
+                   "momentum_range_GeV_c": list(p_range), "separation_sigmas": SEPARATION_SIGMAS}
     page = {"rows": rows, "techniques": [{"label": t[0], "family": t[1]} for t in techniques],
-            "momentum_GeV_c": p / 1e3, "losses_keV": losses, "tof_curves": tof_curves, "groups": [[s.key for s in g] for g in groups]}
+            "momentum_GeV_c": p / 1e3, "momentum_range_GeV_c": p_range, "losses_keV": losses,
+            "separation_curves": {"time of flight": _neighbour_curves(tof_curves, groups),
+                                  "energy loss": _neighbour_curves(dedx_curves, groups)}}
     return key_numbers, page, csv_tables(spec, p, groups, tof_curves, dedx_curves, losses, ckov_curves, cover)
+
+
+def _neighbour_curves(curves_by_layer: dict, groups) -> dict:
+    """Per layer: the n_sigma curves of neighbouring groups in mass (the hardest pairs), for the figures."""
+    return {layer: [{"light": [s.key for s in a], "heavy": [s.key for s in b], "n_sigma": curves[(a[0].key, b[0].key)]["n_sigma"]}
+                    for a, b in zip(groups, groups[1:])]
+            for layer, curves in curves_by_layer.items()}
 
 
 def _pairs(groups):

@@ -9,7 +9,7 @@ from pathlib import Path
 
 import numpy as np
 
-from . import __version__, attenuation, calorimetry, charged, material_card, radiators, signals
+from . import __version__, attenuation, calorimetry, charged, identification, material_card, radiators, signals
 from .cache import cached_map
 from .changes import spec_summary
 from .model import SYSTEM_KINDS, TRACKING_VOLUME_DEFINITION, Spec
@@ -188,6 +188,8 @@ def make_report(spec: Spec, progress=None, cache_dir=None, workers: int = 1) -> 
     radiator_numbers, radiator_curves = {}, {}
     for r in spec.radiators:
         radiator_numbers[r.layer], radiator_curves[r.layer] = radiators.radiator_numbers(spec, r, spec.momentum.values())
+    say("computing: particle identification")
+    ident_numbers, ident_page, ident_csv = identification.identification(spec, media, reach)
     budget = calorimetry.budget_totals(layers)
     survival = calorimetry.survival(layers)
     systems = calorimetry.systems_showers(spec, layers, materials)
@@ -212,6 +214,7 @@ def make_report(spec: Spec, progress=None, cache_dir=None, workers: int = 1) -> 
         "tracking_scattering": charged.cumulative_scattering(spec, x0s),
         "material_budget": budget,
         "radiators": radiator_numbers,
+        "identification": ident_numbers,
         "hadron_survival": survival,
         "calorimeters": systems,
         "tracking_volume": {"x_over_X0": tracking_x0, "layers": tracking["layers"], "definition": tracking_definition,
@@ -253,6 +256,7 @@ def make_report(spec: Spec, progress=None, cache_dir=None, workers: int = 1) -> 
     for kind, prof in shower_profiles.items():
         csv_tables[f"data/showers-{kind}.csv"] = (["depth_X0"] + [s["label"].replace(" ", "_") for s in prof["series"]],
                                                   [list(map(float, r)) for r in zip(prof["t_X0"], *(s["y"] for s in prof["series"]))])
+    csv_tables.update(ident_csv)
     regime = attenuation.regime_map()
     csv_tables["data/photon-regimes.csv"] = (["Z", "symbol", "photoelectric_compton_MeV", "compton_pair_MeV"],
                                              [[r["Z"], r["symbol"], r["photoelectric_compton_MeV"], r["compton_pair_MeV"]]
@@ -286,11 +290,13 @@ def make_report(spec: Spec, progress=None, cache_dir=None, workers: int = 1) -> 
         "signal_figures": signal_figures,
         "shower_profiles": shower_profiles,
         "tracking_scattering_curves": scattering,
+        "identification": ident_page,
         "shower_energy_keys": [f"{e / 1e3:g}" for e in spec.shower_energies],
         "csv_descriptions": {"data/reach.csv": "momentum each species needs to reach each layer",
                              "data/cross.csv": "momentum each species needs to cross each layer on its own",
                              "data/tracking-scattering.csv": "Highland theta0 against momentum through the tracking volume, per species",
                              "data/budget.csv": "material budget and hadron survival per layer",
                              "data/photon-regimes.csv": "photon crossover energies element by element, Z = 1-98 (photoabsorption = Compton, Compton = pair conversion)",
+                             **identification.CSV_DESCRIPTIONS,
                              **{f"data/showers-{k}.csv": f"longitudinal shower profiles in the {k}" for k in systems}},
     }

@@ -1,7 +1,7 @@
 """Spec quantities with units -> floats in refgen's internal unit system, via the pint units library.
 
 This is the only place where units are converted: everything downstream takes plain floats in MeV, cm, g,
-K and Pa (see the package docstring).
+K and Pa, and times in ps (see the package docstring).
 """
 from __future__ import annotations
 
@@ -24,6 +24,7 @@ INTERNAL_UNITS = {
     "angle": "rad",
     "magnetic_field": "T",
     "charge": "fC",
+    "time": "ps",
 }
 EXAMPLES = {
     "length": "150 um, 1.2 cm", "energy": "1 GeV, 3.6 eV", "momentum": "50 MeV/c, 2 GeV/c",
@@ -31,6 +32,7 @@ EXAMPLES = {
     "pressure": "1 atm, 1013 mbar", "kB": "0.0126 cm/MeV", "areal_density": "10 g/cm2", "angle": "2 mrad",
     "magnetic_field": "1.5 T, 500 mT",
     "charge": "0.8 fC, 3000 e",
+    "time": "30 ps, 0.1 ns",
 }
 
 _NUMBER_UNIT = re.compile(r"^\s*([-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?)\s*(.*?)\s*$")

@@ -19,6 +19,7 @@ from .experiment import derived_photon_range, read_experiment, read_grid, read_p
 from .field_section import read_field
 from .layer_section import read_layers
 from .material_section import read_materials
+from .identification_section import read_start_time
 from .radiator_section import read_radiators
 
 TOP_LEVEL_KEYS = {
@@ -32,6 +33,7 @@ TOP_LEVEL_KEYS = {
     "layers": "The layer stack, ordered outward from the interaction point (required).",
     "radiators": "Cherenkov radiators: which layer radiates and its photon band.",
     "field": "Magnetic field perpendicular to the stack axis: {strength, from: <layer>, to: <layer>} or a list of such regions.",
+    "start_time": "Resolution of the event start time for time of flight, e.g. 20 ps (default: an exact start).",
 }
 
 
@@ -60,6 +62,7 @@ def validate(data, lines: dict, source: str = "spec", strict: bool = False, text
     layer_names = _layer_names(data)
     radiators = read_radiators(ctx, data, layers, mats, layer_names)
     field = read_field(ctx, data, layers, layer_names)
+    start_time = read_start_time(ctx, data, layers)
     problems = list(ctx.problems)
     if strict:
         problems += [Problem(w.path, w.line, w.message + " (a warning, fatal with --strict)") for w in ctx.warnings]
@@ -69,6 +72,7 @@ def validate(data, lines: dict, source: str = "spec", strict: bool = False, text
     digest = hashlib.sha256(text.encode("utf-8")).hexdigest()[:16]
     return Spec(experiment=experiment, species=species, momentum=momentum, photon_energy=photon,
                 shower_energies=showers, materials=mats, layers=layers, radiators=radiators,
+                start_time_ps=start_time,
                 notes=tuple(ctx.notes), spec_hash=digest, source_name=source,
                 warnings=tuple(str(w) for w in ctx.warnings), field=field)
 

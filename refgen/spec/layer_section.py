@@ -16,6 +16,7 @@ from typing import Callable
 from ..model import SYSTEM_KINDS, Layer, Material, Slab
 from .context import Context, name_ok
 from .threshold import read_threshold
+from .identification_section import check_samples, check_timing, check_truncation
 
 LAYER_KEYS = {
     "name": "Layer name (required, unique).",
@@ -27,6 +28,9 @@ LAYER_KEYS = {
     "cell": "The slabs of one cell: [{material, thickness, active}, ...].",
     "resolution": "Point resolution in the bending direction, with unit, e.g. 12 um: the layer measures the track (single-slab, active layers only).",
     "threshold": "Readout threshold of a sensitive single-slab layer: an energy (25 keV) or a charge (0.8 fC, 3000 e; needs the material's pair_energy).",
+    "timing": "Arrival-time resolution of a layer that measures time, e.g. 30 ps (time of flight).",
+    "samples": "Number of energy-loss samples (cells or pad rows) of a gaseous tracking layer, for a truncated mean.",
+    "truncation": "Kept fraction of the samples for the truncated mean, in (0, 1] (default 0.7; needs samples).",
 }
 SLAB_KEYS = {"material": "Material name (required).", "thickness": "Thickness with unit (required).",
              "active": "true for a sensitive slab."}
@@ -48,6 +52,9 @@ OptionChecker = Callable[[Context, object, tuple, Layer, dict[str, Material]], o
 LAYER_OPTIONS: dict[str, tuple[str, OptionChecker]] = {
     "resolution": ("resolution_cm", _resolution),
     "threshold": ("threshold", read_threshold),
+    "timing": ("timing_ps", check_timing),
+    "samples": ("samples", check_samples),
+    "truncation": ("truncation", check_truncation),
 }
 
 
