@@ -153,13 +153,23 @@ def energy_loss_separation(loss_a, loss_b, resolution):
 
 
 def crossovers(p, loss_a, loss_b) -> list[float]:
-    """Momenta (same unit as p) where two loss curves cross, interpolated linearly in log p."""
+    """Momenta (same unit as p) where two loss curves cross, interpolated linearly in log p (a crossing that
+    falls on a grid point is that point). Stretches where either curve is nan are skipped."""
     p = np.asarray(p, dtype=float)
     d = np.asarray(loss_a, dtype=float) - np.asarray(loss_b, dtype=float)
     out = []
-    for i in np.nonzero(np.isfinite(d[:-1]) & np.isfinite(d[1:]) & (np.sign(d[:-1]) * np.sign(d[1:]) < 0))[0]:
-        f = d[i] / (d[i] - d[i + 1])
-        out.append(float(np.exp(np.log(p[i]) + f * (np.log(p[i + 1]) - np.log(p[i])))))
+    last = None  # index of the last finite, non-zero difference
+    for i in range(len(d)):
+        if not np.isfinite(d[i]):
+            last = None
+        elif d[i] != 0.0:
+            if last is not None and np.sign(d[last]) != np.sign(d[i]):
+                if i == last + 1:
+                    f = d[last] / (d[last] - d[i])
+                    out.append(float(np.exp(np.log(p[last]) + f * (np.log(p[i]) - np.log(p[last])))))
+                else:
+                    out.append(float(p[last + 1]))
+            last = i
     return out
 
 
