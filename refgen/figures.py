@@ -468,6 +468,75 @@ def straggling_figure(energy_kev, density, mode_kev: float, threshold: dict | No
         return to_svg(fig)
 
 
+def pair_tex(light: list[str], heavy: list[str], labels: dict) -> str:
+    """'e-, e+ / mu-' in mathtext for a pair of species groups."""
+    return " / ".join(", ".join(species_tex(labels[k]) for k in group) for group in (light, heavy))
+
+
+GAP_FILL = {"facecolor": "#eeeeee", "edgecolor": "#9a9a9a", "hatch": "xxx", "linewidth": 0.0}
+
+
+def identification_figure(rows: list[dict], techniques: list[dict], labels: dict, p_range) -> bytes:
+    """The identification picture: one band per species pair on a log momentum axis. Inside each band, one thin
+    lane per technique holds the ranges it separates at >= 3 sigma; momenta no technique covers are cross-hatched
+    across the whole band; energy-loss crossovers are marked with a diamond on the band's centre line."""
+    plt = _plt()
+    from matplotlib.patches import Patch, Rectangle
+    n_lanes = max(len(techniques), 1)
+    with plt.rc_context(STYLE):
+        fig, ax = plt.subplots(figsize=(7.2, 0.9 + len(rows) * (0.16 + 0.09 * n_lanes)))
+        lane_h = 0.8 / n_lanes
+        for r, row in enumerate(rows):
+            for g in row["gaps"]:
+                ax.add_patch(Rectangle((g["from"], r - 0.45), g["to"] - g["from"], 0.9, zorder=1, **GAP_FILL))
+            for i, lane in enumerate(row["lanes"]):
+                y = r - 0.4 + i * lane_h
+                for lo, hi in lane["ranges"]:
+                    ax.add_patch(Rectangle((lo, y + 0.1 * lane_h), hi - lo, 0.8 * lane_h, color=PALETTE[i % len(PALETTE)],
+                                           zorder=2, linewidth=0))
+            for c in row["crossovers"]:
+                ax.plot([c], [r], marker="D", markersize=3.2, color="#222222", zorder=3, linestyle="none")
+            if r:
+                ax.axhline(r - 0.5, color="#c8ccd1", linewidth=0.5, zorder=0)
+        ax.set_xscale("log")
+        ax.set_xlim(*p_range)
+        ax.set_ylim(len(rows) - 0.5, -0.5)
+        ax.set_yticks(range(len(rows)))
+        ax.set_yticklabels([pair_tex(row["light"], row["heavy"], labels) for row in rows], fontsize=7.5)
+        ax.grid(axis="y", visible=False)
+        ax.set_xlabel("momentum at the origin (GeV/c)")
+        handles = [Patch(color=PALETTE[i % len(PALETTE)], label=t["label"]) for i, t in enumerate(techniques)]
+        handles.append(Patch(label="no technique reaches 3σ", **GAP_FILL))
+        if any(row["crossovers"] for row in rows):
+            handles.append(plt.Line2D([], [], marker="D", markersize=3.2, color="#222222", linestyle="none",
+                                      label="energy-loss crossover"))
+        ax.legend(handles=handles, fontsize=7, loc="lower left", bbox_to_anchor=(0.0, 1.01), ncol=2)
+        return to_svg(fig)
+
+
+def separation_figure(p_gev, series: list[dict], labels: dict, ylabel: str) -> bytes:
+    """Separation in standard deviations against momentum for a few species pairs, with the 3-sigma line."""
+    plt = _plt()
+    with plt.rc_context(STYLE):
+        fig, ax = plt.subplots(figsize=(6.4, 3.8))
+        top = 3.0
+        for i, s in enumerate(series):
+            y = np.asarray(s["n_sigma"], dtype=float)
+            y = np.where(y > 0, y, np.nan)
+            if np.isfinite(y).any():
+                top = max(top, float(np.nanmax(y)))
+            ax.plot(p_gev, y, label=pair_tex(s["light"], s["heavy"], labels), **line_style(i))
+        ax.axhline(3.0, color="#444444", linewidth=0.9)
+        ax.annotate("3σ", (p_gev[-1], 3.0), xytext=(-2, 3), textcoords="offset points", ha="right", fontsize=7.5)
+        ax.set_xscale("log")
+        ax.set_yscale("log")
+        ax.set_ylim(0.1, top * 2)
+        ax.set_xlabel("momentum at the origin (GeV/c)")
+        ax.set_ylabel(ylabel)
+        ax.legend(fontsize=7.5, loc="upper left", bbox_to_anchor=(1.01, 1.0))
+        return to_svg(fig)
+
+
 @functools.cache
 def _code_version() -> bytes:
     """This module's source and matplotlib's version: a change to either invalidates every cached figure."""

@@ -177,7 +177,9 @@ def energy_loss(spec, p, reach: dict, groups, media) -> tuple[dict, dict, dict, 
         layers[layer.name] = {"material": material.name, "samples": layer.samples, "sample_thickness_cm": x,
                               "pressure_atm": pressure_atm, "truncation": truncation,
                               "truncation_is_default": layer.truncation is None,
-                              "resolution": resolution, "resolution_valid": valid_fit,
+                              "thickness_pressure_cm_atm": x * pressure_atm,
+                              "resolution": resolution, "resolution_percent": 100.0 * resolution,
+                              "resolution_valid": valid_fit,
                               "resolution_note": None if valid_fit else
                               (f"outside the range of the Allison-Cobb fit (N 10-1000, x P 0.1-100 cm atm, truncation "
                                f"{TRUNCATION_VALID[0]:g}-{TRUNCATION_VALID[1]:g}): indicative only")}
@@ -310,10 +312,12 @@ def identification(spec, media, reach: dict) -> tuple[dict, dict, dict]:
         for x in light:
             for y in heavy:
                 cover[pair_key(x, y)] = entries
-        rows.append({"light": [s.key for s in light], "heavy": [s.key for s in heavy],
+        rows.append({"key": pair_key(light[0], heavy[0]), "light": [s.key for s in light], "heavy": [s.key for s in heavy],
                      "ranges": [_shown(lo, hi, p_range, technique=t) for lo, hi, t in ranges],
                      "gaps": [_shown(lo, hi, p_range) for lo, hi in gaps],
                      "covered": [_shown(lo, hi, p_range) for lo, hi in merge(ranges)],
+                     "by_technique": [{"technique": label, "ranges": [_shown(lo, hi, p_range) for lo, hi, t in ranges if t == label]}
+                                      for label, _, _ in techniques if any(t == label for _, _, t in ranges)],
                      "lanes": [{"label": label, "family": family,
                                 "ranges": [r[:2] for r in ranges if r[2] == label]} for label, family, _ in techniques],
                      "crossovers": sorted({c for pairs in dedx_pairs.values()
@@ -323,6 +327,7 @@ def identification(spec, media, reach: dict) -> tuple[dict, dict, dict]:
                    "momentum_range_GeV_c": list(p_range), "separation_sigmas": SEPARATION_SIGMAS}
     page = {"rows": rows, "techniques": [{"label": t[0], "family": t[1]} for t in techniques],
             "momentum_GeV_c": p / 1e3, "momentum_range_GeV_c": p_range, "losses_keV": losses,
+            "radiator_slugs": [r.layer for r in spec.radiators],
             "separation_curves": {"time of flight": _neighbour_curves(tof_curves, groups),
                                   "energy loss": _neighbour_curves(dedx_curves, groups)}}
     return key_numbers, page, csv_tables(spec, p, groups, tof_curves, dedx_curves, losses, ckov_curves, cover)

@@ -318,6 +318,25 @@ def signal_figures(report: dict) -> dict[str, tuple]:
                  f["model"]) for name, f in report["signal_figures"].items()}
 
 
+def identification_figures(report: dict) -> dict[str, tuple]:
+    """The combined identification picture, and per timing or sampling layer its separation curves (and the most
+    probable loss per sample of each species)."""
+    ident = report["identification"]
+    labels = report["species_labels"]
+    p = ident["momentum_GeV_c"]
+    out = {"fig/identification.svg": _job("identification_figure", ident["rows"], ident["techniques"], labels,
+                                          ident["momentum_range_GeV_c"])}
+    for family, prefix in (("time of flight", "tof"), ("energy loss", "dedx")):
+        for layer, series in ident["separation_curves"][family].items():
+            out[f"fig/identification-{prefix}-{report['layer_slugs'][layer]}.svg"] = _job(
+                "separation_figure", p, series, labels, f"{family} separation (standard deviations)")
+    for layer, losses in ident["losses_keV"].items():
+        series = [{"label": labels[sp], "x": p, "y": y, "valid": np.isfinite(y)} for sp, y in losses.items()]
+        out[f"fig/identification-loss-{report['layer_slugs'][layer]}.svg"] = _job(
+            "species_curves", series, "momentum at the origin (GeV/c)", "most probable loss per sample (keV)", "")
+    return out
+
+
 def render_site(report: dict, build_info: dict, single: bool = False, workers: int = 1,
                 cache_dir=None) -> dict[str, bytes]:
     """Every file of the site, in memory: pages, key-numbers.json and static assets. The figures are drawn in
@@ -335,6 +354,7 @@ def render_site(report: dict, build_info: dict, single: bool = False, workers: i
     jobs.update(photon_figures(report))
     jobs.update(radiator_figures(report))
     jobs.update(signal_figures(report))
+    jobs.update(identification_figures(report))
     drawer = Drawer(jobs, workers=workers, cache_dir=cache_dir)
     env = environment(Path(cache_dir).parent / "templates" if cache_dir is not None else None)
     full_kn = report["key_numbers"]
@@ -360,7 +380,9 @@ def render_site(report: dict, build_info: dict, single: bool = False, workers: i
              ("budget.html", "budget.html", {"title": "Material budget", "page": "budget"}),
              ("signals.html", "signals.html", {"title": "Thin-sensor signals", "page": "signals",
                                                "layers": [l for l in kn["layers"] if "straggling" in l]}),
-             ("photons.html", "photons.html", {"title": "Photons", "page": "photons"})]
+             ("photons.html", "photons.html", {"title": "Photons", "page": "photons"}),
+             ("identification.html", "identification.html", {"title": "Particle identification", "page": "identification",
+                                                             "ident": report["identification"]})]
     if report["has_changes"]:
         pages.append(("changes.html", "changes.html", {"title": "Changes since the baseline", "page": "changes",
                                                        "c": report["changes"]}))
