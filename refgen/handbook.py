@@ -173,6 +173,7 @@ def search_index(kn: dict, report: dict) -> list[dict]:
         {"t": "Thin-sensor signals", "u": "signals.html", "k": "threshold efficiency landau vavilov straggling distribution fC charge angle"},
         {"t": "Material budget", "u": "budget.html", "k": "radiation length interaction length survival conversion x/X0 tracking volume"},
         {"t": "Photons", "u": "photons.html", "k": "photoabsorption photoelectric compton rayleigh pair conversion probability transmission attenuation crossover map regime tracking volume"},
+        {"t": "Particle identification", "u": "identification.html", "k": "time of flight timing energy loss dE/dx truncated mean Cherenkov separation crossover gap"},
         {"t": "Methods and validity", "u": "methods.html", "k": "formula reference validity accuracy caution limited"},
         {"t": "Downloads", "u": "downloads.html", "k": "csv json data files key numbers"},
     ]

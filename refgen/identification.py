@@ -58,18 +58,9 @@ def pair_key(a, b) -> str:
     return f"{a.key}/{b.key}"
 
 
-def layer_positions(spec) -> dict[str, tuple[float, float]]:
-    """(front, back) of each layer along the axis, cm."""
-    out, z = {}, 0.0
-    for layer in spec.layers:
-        out[layer.name] = (z, z + layer.thickness)
-        z += layer.thickness
-    return out
-
-
 def field_regions(spec) -> list[tuple[float, float, float]]:
     """(start_cm, end_cm, strength_T) of every field region of the spec (none without a field)."""
-    return [(f.start_cm, f.end_cm, f.strength_tesla) for f in getattr(spec, "field", ())]
+    return [(f.start_cm, f.end_cm, f.strength_tesla) for f in spec.field]
 
 
 def reach_mask(p, reach: dict, layer: str, *species) -> np.ndarray:
@@ -90,14 +81,13 @@ def reach_from(reach: dict, layer: str, a, b) -> float | None:
 
 def time_of_flight(spec, p, reach: dict, groups) -> tuple[dict, dict, dict]:
     """Per timing layer: (layer facts, pair numbers, curves n_sigma per group pair)."""
-    positions = layer_positions(spec)
+    starts = spec.layer_starts()
     regions = field_regions(spec)
     layers, pairs, curves = {}, {}, {}
     for layer in spec.layers:
         if layer.timing_ps is None:
             continue
-        front, back = positions[layer.name]
-        z = 0.5 * (front + back)
+        z = starts[layer.name] + 0.5 * layer.thickness
         sigma = combined_time_resolution_ps(layer.timing_ps, spec.start_time_ps)
         bent = any(lo < z and hi > 0 for lo, hi, _ in regions)
         layers[layer.name] = {"timing_resolution_ps": layer.timing_ps, "start_time_resolution_ps": spec.start_time_ps,
@@ -325,7 +315,8 @@ def identification(spec, media, reach: dict) -> tuple[dict, dict, dict]:
     key_numbers = {"time_of_flight": tof_pairs, "energy_loss": dedx_pairs, "coverage": cover,
                    "timing_layers": tof_layers, "sampling_layers": dedx_layers, "radiators": ckov_facts,
                    "momentum_range_GeV_c": list(p_range), "separation_sigmas": SEPARATION_SIGMAS}
-    page = {"rows": rows, "techniques": [{"label": t[0], "family": t[1]} for t in techniques],
+    neighbours = {pair_key(a[0], b[0]) for a, b in zip(groups, groups[1:])}
+    page = {"rows": rows, "neighbour_rows": [row for row in rows if row["key"] in neighbours], "techniques": [{"label": t[0], "family": t[1]} for t in techniques],
             "momentum_GeV_c": p / 1e3, "momentum_range_GeV_c": p_range, "losses_keV": losses,
             "radiator_slugs": [r.layer for r in spec.radiators],
             "separation_curves": {"time of flight": _neighbour_curves(tof_curves, groups),
