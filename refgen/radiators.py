@@ -8,6 +8,7 @@ import numpy as np
 
 from .physics.cherenkov import (cherenkov_angle, photons_per_cm, refractive_index, saturated_angle,
                                 threshold_momentum)
+from .physics.identification import ring_angle_separation
 from .physics.kinematics import kinetic_energy, momentum_of_kinetic
 from .physics.scintillation import birks_light_stopping, birks_light_thin
 from .physics.stopping import BETHE_VALID_MIN_BG, bethe_stopping
@@ -105,11 +106,8 @@ def ring_separation(spec, curves: dict, p_grid, sigma_mrad: float) -> list[dict]
     out = []
     for light_group, heavy_group in itertools.combinations(mass_groups(spec), 2):
         light, heavy = light_group[0], heavy_group[0]
-        d = curves[f"theta_mrad_{light.key}"] - curves[f"theta_mrad_{heavy.key}"]
-        npe = curves[f"photoelectrons_{heavy.key}"]
-        with np.errstate(divide="ignore", invalid="ignore"):
-            sigma_ring = sigma_mrad / np.sqrt(npe)
-            sep = np.where(np.isfinite(d) & (npe >= 1.0), d / sigma_ring, np.nan)
+        sep = ring_angle_separation(curves[f"theta_mrad_{light.key}"], curves[f"theta_mrad_{heavy.key}"],
+                                    curves[f"photoelectrons_{heavy.key}"], sigma_mrad)
         good = sep >= RING_SIGMAS
         upto = float(p_grid[np.nonzero(good)[0][-1]]) / 1e3 if good.any() else None
         out.append({"pair": [light.key, heavy.key], "pair_all": [[s.key for s in light_group], [s.key for s in heavy_group]],

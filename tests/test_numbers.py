@@ -19,6 +19,11 @@ NULLABLE = {
     "separated_up_to_GeV_c": "never separated at 3 sigma in the momentum range",
     "most_probable_fC": "no mean energy per carrier (W) for this material",
     "efficiency": "no threshold on this layer (straggling angle table)",
+    "separated_from_GeV_c": "never separated at 3 sigma where both species reach the layer",
+    "separation_sigma_at_1_GeV_c": "a species does not reach the layer at 1 GeV/c",
+    "time_difference_ps_at_1_GeV_c": "a species does not reach the layer at 1 GeV/c",
+    "start_time_resolution_ps": "no start_time in the spec: the start is taken as exact",
+    "resolution_note": "only set when the resolution is outside the fit's range",
     "sampling_fraction_mip": "no active slab", "stochastic_term_fraction_sqrt_GeV": "no active slab",
 }
 

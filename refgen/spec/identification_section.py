@@ -18,6 +18,8 @@ def check_samples(ctx: Context, value, path, layer, materials) -> int | None:
     if isinstance(value, bool) or not isinstance(value, int) or not 1 <= value <= MAX_SAMPLES:
         ctx.error(path, f"samples must be a whole number from 1 to {MAX_SAMPLES} (got {value!r})")
         return None
+    if any(s.material not in materials for s in layer.slabs):
+        return None  # the material itself is invalid and already reported
     gas = len(layer.slabs) == 1 and layer.repeat == 1 and materials[layer.slabs[0].material].is_gas
     if not gas or layer.system != "tracking":
         ctx.error(path, f"samples needs a gaseous tracking layer (a single gas slab with system: tracking); "
