@@ -127,7 +127,8 @@ def spec_summary(spec) -> dict:
                                       f"{spec.photon_energy.points} points",
                      "shower_energies": ", ".join(f"{e / 1e3:g}" for e in spec.shower_energies) + " GeV",
                      "magnetic_field": "; ".join(f"{r.strength_tesla:g} T from {r.from_layer} to {r.to_layer}"
-                                                 for r in getattr(spec, "field", ())) or "none"},
+                                                 for r in getattr(spec, "field", ())) or "none",
+                     "start_time": f"{spec.start_time_ps:g} ps" if spec.start_time_ps else "exact (not given)"},
     }
 
 
