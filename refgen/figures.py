@@ -533,7 +533,54 @@ def separation_figure(p_gev, series: list[dict], labels: dict, ylabel: str) -> b
         ax.set_ylim(0.1, top * 2)
         ax.set_xlabel("momentum at the origin (GeV/c)")
         ax.set_ylabel(ylabel)
+
+
+def _flag_band(ax, flag_below, label: str) -> None:
+    """Shade the momenta below ``flag_below`` (GeV/c), where a number is not valid as drawn."""
+    if flag_below is not None:
+        ax.axvspan(ax.get_xlim()[0], flag_below, color="#e6e6e6", zorder=0, label=label)
+
+
+def resolution_figure(p_gev, total, measurement, scattering, flag_below, equal_at, label: str) -> bytes:
+    """sigma(p)/p against momentum for one species: the full fit and its point-resolution and scattering parts,
+    the momentum where the parts are equal, and the flagged momenta shaded."""
+    plt = _plt()
+    as_array = lambda v: np.array([np.nan if x is None else x for x in v], dtype=float)  # noqa: E731
+    with plt.rc_context(STYLE):
+        fig, ax = plt.subplots(figsize=(6.4, 4.0))
+        ax.plot(p_gev, as_array(total) * 100, label="full fit", **line_style(0))
+        ax.plot(p_gev, as_array(measurement) * 100, label="point resolution only", **line_style(1))
+        ax.plot(p_gev, as_array(scattering) * 100, label="multiple scattering only", **line_style(2))
+        ax.set_xscale("log")
+        ax.set_yscale("log")
+        ax.set_xlim(p_gev[0], p_gev[-1])
+        _flag_band(ax, flag_below, "loses > 5 % of p before the last plane, or stops")
+        if equal_at is not None and p_gev[0] <= equal_at <= p_gev[-1]:
+            ax.axvline(equal_at, color="#555555", linewidth=0.8, linestyle=":")
+            ax.annotate(f"parts equal at {equal_at:.3g} GeV/c", (equal_at, 0.02), xycoords=("data", "axes fraction"),
+                        xytext=(3, 0), textcoords="offset points", fontsize=7.5, color="#333333")
+        ax.set_xlabel("momentum (GeV/c)")
+        ax.set_ylabel(f"σ(p)/p (%), {species_tex(label)}")
         ax.legend(fontsize=7.5, loc="upper left", bbox_to_anchor=(1.01, 1.0))
+        return to_svg(fig)
+
+
+def origin_figure(p_gev, series: list[dict]) -> bytes:
+    """Position (um) and angle (mrad) resolution at the origin against momentum, per species, two panels."""
+    plt = _plt()
+    as_array = lambda v: np.array([np.nan if x is None else x for x in v], dtype=float)  # noqa: E731
+    with plt.rc_context(STYLE):
+        fig, (top, bottom) = plt.subplots(2, 1, figsize=(6.4, 5.6), sharex=True)
+        for i, s in enumerate(series):
+            top.plot(p_gev, as_array(s["origin_um"]), label=species_tex(s["label"]), **line_style(i))
+            bottom.plot(p_gev, as_array(s["angle_mrad"]), **line_style(i))
+        for ax in (top, bottom):
+            ax.set_xscale("log")
+            ax.set_yscale("log")
+        top.set_ylabel("σ of the position at the origin (µm)")
+        bottom.set_ylabel("σ of the angle (mrad)")
+        bottom.set_xlabel("momentum (GeV/c)")
+        top.legend(fontsize=7.5, loc="upper left", bbox_to_anchor=(1.01, 1.0))
         return to_svg(fig)
 
 

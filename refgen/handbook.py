@@ -125,11 +125,26 @@ def quick_reference(kn: dict, report: dict) -> dict:
     return {
         "species": species,
         "all_species": len(species) == len(kn["particles"]),
+        "tracker": tracker_line(kn, species),
         "landmarks": landmarks,
         "all_sensitive": len(landmarks) == sum(1 for l in kn["layers"] if l["active"]),
         "reach": reach_rows(kn, report, "reach", landmarks, species),
         "active_layers": [l for l in kn["layers"] if l["active"]],
     }
+
+
+def tracker_line(kn: dict, species: list[str]) -> dict | None:
+    """The tracker's line on the quick reference: its measuring layers, field, and for the first quick-reference
+    species sigma(p)/p at 1, 10 and 100 GeV/c and the origin resolution at 1 GeV/c; None when nothing measures."""
+    lay = kn["tracking_layout"]
+    if not lay["fits_position"]:
+        return None
+    key = species[0] if species else next(iter(kn["tracking_resolution"]))
+    at = kn["tracking_resolution"][key]["at_round_momenta"]
+    return {"species": key, "planes": len(lay["planes"]), "first": lay["planes"][0]["layer"],
+            "last": lay["planes"][-1]["layer"], "field_T_m": sum(r["field_integral_T_m"] for r in lay["field"]),
+            "momentum_GeV_c": at["momentum_GeV_c"], "sigma_p_over_p": at.get("sigma_p_over_p"),
+            "sigma_origin_um_at_1_GeV_c": at["sigma_origin_um"][0]}
 
 
 def downloads(report: dict) -> list[dict]:
@@ -171,6 +186,7 @@ def search_index(kn: dict, report: dict) -> list[dict]:
         {"t": "Charged particles", "u": "charged.html", "k": "reach momentum cross signals landau most probable mean carriers "
                                                            "fC scattering theta0 highland scintillator light birks quench quenching electrons shower"},
         {"t": "Thin-sensor signals", "u": "signals.html", "k": "threshold efficiency landau vavilov straggling distribution fC charge angle"},
+        {"t": "Tracking resolution", "u": "tracking.html", "k": "momentum resolution sigma(p)/p position angle origin impact field"},
         {"t": "Material budget", "u": "budget.html", "k": "radiation length interaction length survival conversion x/X0 tracking volume"},
         {"t": "Photons", "u": "photons.html", "k": "photoabsorption photoelectric compton rayleigh pair conversion probability transmission attenuation crossover map regime tracking volume"},
         {"t": "Particle identification", "u": "identification.html", "k": "time of flight timing energy loss dE/dx truncated mean Cherenkov separation crossover gap"},

@@ -334,6 +334,23 @@ def identification_figures(report: dict) -> dict[str, tuple]:
         series = [{"label": labels[sp], "x": p, "y": y, "valid": np.isfinite(y)} for sp, y in losses.items()]
         out[f"fig/identification-loss-{report['layer_slugs'][layer]}.svg"] = _job(
             "species_curves", series, "momentum at the origin (GeV/c)", "most probable loss per sample (keV)", "")
+
+
+def tracking_figures(report: dict) -> dict[str, tuple]:
+    """sigma(p)/p per species (with a momentum measurement) and the origin resolutions of every species."""
+    kn = report["key_numbers"]
+    labels = report["species_labels"]
+    out = {}
+    series = []
+    for sp, r in kn["tracking_resolution"].items():
+        if kn["tracking_layout"]["fits_momentum"]:
+            out[f"fig/tracking-momentum-{report['species_slugs'][sp]}.svg"] = _job(
+                "resolution_figure", r["momentum_GeV_c"], r["sigma_p_over_p"], r["sigma_p_over_p_measurement"],
+                r["sigma_p_over_p_scattering"], r["energy_loss_flag_below_GeV_c"], r["parts_equal_at_GeV_c"], labels[sp])
+        series.append({"label": labels[sp], "origin_um": r["sigma_origin_um"], "angle_mrad": r["sigma_angle_mrad"]})
+    if kn["tracking_layout"]["fits_position"]:
+        p = next(iter(kn["tracking_resolution"].values()))["momentum_GeV_c"]
+        out["fig/tracking-origin.svg"] = _job("origin_figure", p, series)
     return out
 
 
@@ -355,6 +372,7 @@ def render_site(report: dict, build_info: dict, single: bool = False, workers: i
     jobs.update(radiator_figures(report))
     jobs.update(signal_figures(report))
     jobs.update(identification_figures(report))
+    jobs.update(tracking_figures(report))
     drawer = Drawer(jobs, workers=workers, cache_dir=cache_dir)
     env = environment(Path(cache_dir).parent / "templates" if cache_dir is not None else None)
     full_kn = report["key_numbers"]
@@ -380,6 +398,7 @@ def render_site(report: dict, build_info: dict, single: bool = False, workers: i
              ("budget.html", "budget.html", {"title": "Material budget", "page": "budget"}),
              ("signals.html", "signals.html", {"title": "Thin-sensor signals", "page": "signals",
                                                "layers": [l for l in kn["layers"] if "straggling" in l]}),
+             ("tracking.html", "tracking.html", {"title": "Tracking resolution", "page": "tracking"}),
              ("photons.html", "photons.html", {"title": "Photons", "page": "photons"}),
              ("identification.html", "identification.html", {"title": "Particle identification", "page": "identification",
                                                              "ident": report["identification"]})]

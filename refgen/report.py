@@ -9,7 +9,7 @@ from pathlib import Path
 
 import numpy as np
 
-from . import __version__, attenuation, calorimetry, charged, identification, material_card, radiators, signals
+from . import __version__, attenuation, calorimetry, charged, identification, material_card, radiators, signals, tracking as tracking_section
 from .cache import cached_map
 from .changes import spec_summary
 from .model import SYSTEM_KINDS, TRACKING_VOLUME_DEFINITION, Spec
@@ -196,6 +196,8 @@ def make_report(spec: Spec, progress=None, cache_dir=None, workers: int = 1) -> 
     tracking = attenuation.tracking_volume_photons(spec, layer_coeffs)
     tracking_x0 = sum(l["x_over_X0"] for l in layers if l["name"] in tracking["layers"])
     tracking_definition = TRACKING_VOLUME_DEFINITION
+    say("computing: tracking resolution")
+    tracking_layout, tracking_resolution = tracking_section.tracking_report(spec, x0s, tables)
     key_numbers = {
         "schema": SCHEMA,
         "caution": CAUTION,
@@ -221,6 +223,8 @@ def make_report(spec: Spec, progress=None, cache_dir=None, workers: int = 1) -> 
                             "photon_conversion_probability_high_energy": calorimetry.conversion_probability_high_energy(tracking_x0),
                             "photon": tracking,
                             "photon_conversion_probability_at_1_GeV": tracking["conversion_probability"][-1]},
+        "tracking_layout": tracking_layout,
+        "tracking_resolution": tracking_resolution,
     }
     slugs = _unique_slugs(spec.materials)
     species_slugs = _unique_slugs([s.key for s in spec.species])
@@ -232,6 +236,8 @@ def make_report(spec: Spec, progress=None, cache_dir=None, workers: int = 1) -> 
         cols = list(c)
         csv_tables[f"data/cherenkov/{layer_slugs[name]}.csv"] = (cols, [list(map(float, r)) for r in zip(*(c[k] for k in cols))])
     csv_tables.update({f"data/straggling/{layer_slugs[name]}.csv": t for name, t in signal_tables.items()})
+    csv_tables.update({f"data/tracking/{species_slugs[sp]}.csv": tracking_section.csv_table(r)
+                       for sp, r in tracking_resolution.items()})
     names = [l["name"] for l in layers]
     scattering = charged.tracking_scattering_curves(spec, x0s, tables)
     theta_cols = [c for c in scattering if c.startswith("theta0_mrad_")]
@@ -298,5 +304,7 @@ def make_report(spec: Spec, progress=None, cache_dir=None, workers: int = 1) -> 
                              "data/budget.csv": "material budget and hadron survival per layer",
                              "data/photon-regimes.csv": "photon crossover energies element by element, Z = 1-98 (photoabsorption = Compton, Compton = pair conversion)",
                              **identification.CSV_DESCRIPTIONS,
-                             **{f"data/showers-{k}.csv": f"longitudinal shower profiles in the {k}" for k in systems}},
+                             **{f"data/showers-{k}.csv": f"longitudinal shower profiles in the {k}" for k in systems},
+                             **{f"data/tracking/{species_slugs[sp]}.csv": f"tracking resolution of {sp} against momentum: "
+                                "sigma(p)/p and its parts, position and angle at the origin" for sp in tracking_resolution}},
     }

@@ -38,7 +38,7 @@ def test_bad_spec_exits_non_zero_and_writes_nothing(tmp_path, capsys):
     assert not out.exists()
     err = capsys.readouterr().err.strip().splitlines()
     line = next(i for i, text in enumerate(bad.read_text().splitlines(), 1) if "150 kg" in text)
-    assert err == [f"error: {bad}: line {line}: layers[1].thickness: '150 kg' is not a length; expected e.g. '150 um, 1.2 cm'"]
+    assert err == [f"error: {bad}: line {line}: layers[2].thickness: '150 kg' is not a length; expected e.g. '150 um, 1.2 cm'"]
 
 
 def test_check_command(capsys):

@@ -25,6 +25,13 @@ NULLABLE = {
     "start_time_resolution_ps": "no start_time in the spec: the start is taken as exact",
     "resolution_note": "only set when the resolution is outside the fit's range",
     "sampling_fraction_mip": "no active slab", "stochastic_term_fraction_sqrt_GeV": "no active slab",
+    "momentum_note": "only set when the momentum is not measured",
+    "energy_loss_flag_below_GeV_c": "no momentum of the grid loses more than 5 %",
+    "unreachable_below_GeV_c": "the species reaches the last measuring layer at every momentum",
+    "parts_equal_at_GeV_c": "no material or no field",
+    **{column: "the species stops before the last measuring layer at this momentum (or no field for sigma(p)/p)"
+       for column in ("sigma_p_over_p", "sigma_p_over_p_measurement", "sigma_p_over_p_scattering", "sigma_origin_um",
+                      "sigma_angle_mrad", "momentum_loss_fraction")},
 }
 
 
@@ -45,6 +52,6 @@ def test_key_numbers_are_finite_or_null_with_a_reason(demo_spec):
         if isinstance(value, float):
             assert math.isfinite(value), path
         if value is None:
-            leaf = path.rsplit(".", 1)[-1]
+            leaf = path.rsplit(".", 1)[-1].split("[")[0]
             # reach momenta are null where the species cannot reach the layer by continuous slowing down
             assert leaf in NULLABLE or path.startswith((".reach_momentum_GeV_c.", ".cross_momentum_GeV_c.")), path

@@ -24,13 +24,15 @@ PINS = [
     ("layers.crystal-calorimeter.x_over_X0", 24.652241644992724),
     ("layers.hadron-calorimeter.x_over_lambda_I", 6.214532255886268),
     ("layers.hadron-calorimeter.scintillator.mip_photons", 9839.536171006459),
-    ("reach_momentum_GeV_c.muon.muon-chamber-2", 2.7221664121822187),
-    ("reach_momentum_GeV_c.proton.crystal-calorimeter", 0.3780035371476391),
-    ("tracking_volume.photon_conversion_probability_at_1_GeV", 0.017525848401094498),
+    ("reach_momentum_GeV_c.muon.muon-chamber-2", 2.7223819503016027),
+    ("reach_momentum_GeV_c.proton.crystal-calorimeter", 0.380139729779587),
+    ("tracking_volume.photon_conversion_probability_at_1_GeV", 0.020033153004168764),
     ("radiators.threshold-aerogel.threshold_momentum_GeV_c.kaon", 2.1941200000000016),
     ("radiators.gas-radiator.photoelectrons_at_beta_1", 21.996266627968975),
     ("calorimeters.em-calorimeter.shower.10.containment_fraction", 0.9975659614796911),
     ("calorimeters.hadron-calorimeter.sampling_fraction_mip", 0.034136387349206904),
+    ("tracking_layout.x_over_X0_to_last_plane", 0.026556407496581846),
+    ("tracking_resolution.muon.parts_equal_at_GeV_c", 14.400457976434316),
 ]
 
 
