@@ -533,6 +533,8 @@ def separation_figure(p_gev, series: list[dict], labels: dict, ylabel: str) -> b
         ax.set_ylim(0.1, top * 2)
         ax.set_xlabel("momentum at the origin (GeV/c)")
         ax.set_ylabel(ylabel)
+        ax.legend(fontsize=7.5, loc="upper left", bbox_to_anchor=(1.01, 1.0))
+        return to_svg(fig)
 
 
 def _flag_band(ax, flag_below, label: str) -> None:

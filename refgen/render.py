@@ -334,6 +334,7 @@ def identification_figures(report: dict) -> dict[str, tuple]:
         series = [{"label": labels[sp], "x": p, "y": y, "valid": np.isfinite(y)} for sp, y in losses.items()]
         out[f"fig/identification-loss-{report['layer_slugs'][layer]}.svg"] = _job(
             "species_curves", series, "momentum at the origin (GeV/c)", "most probable loss per sample (keV)", "")
+    return out
 
 
 def tracking_figures(report: dict) -> dict[str, tuple]:
