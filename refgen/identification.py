@@ -107,6 +107,9 @@ def time_of_flight(spec, p, reach: dict, groups) -> tuple[dict, dict, dict]:
             else:
                 upto = tof_separation_momentum(a.mass, b.mass, z, sigma) / 1e3
             start = reach_from(reach, layer.name, a, b)
+            clear = np.isfinite(path_a) & np.isfinite(path_b)
+            if start is not None and bent:  # below this grid momentum a track curls back inside the field
+                start = max(start, float(p[np.argmax(clear)]) / 1e3) if clear.any() else None
             if start is None or upto is None or upto <= start:
                 upto_reported = None
             else:
