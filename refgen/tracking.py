@@ -11,6 +11,7 @@ import numpy as np
 from scipy.optimize import brentq
 
 from .physics.kinematics import kinetic_energy, momentum_of_kinetic
+from .physics.identification import field_path_length
 from .physics.scattering import highland_theta0, highland_valid
 from .physics.tracking import (CURVATURE_CONSTANT, design_matrix, field_double_integral, fit_covariance,
                                parameters_measurable, scattering_covariance, scattering_limited_covariance)
@@ -130,12 +131,24 @@ def _evaluate(model: dict, species, p_mev, reached) -> dict[str, list]:
             for k, values in columns.items()}
 
 
+def clears_field(lay: dict, species, p_mev) -> np.ndarray:
+    """True where a track of this species gets through the field regions to the last plane; below that the
+    field turns it back (its arc in the field reaches 90 degrees) and it counts as not reaching the plane."""
+    p = np.asarray(p_mev, dtype=float)
+    if not lay["field"] or not lay["planes"]:
+        return np.ones(p.shape, dtype=bool)
+    z_last = max(pl["z_cm"] for pl in lay["planes"])
+    regions = [(r["start_cm"], r["end_cm"], r["strength_T"]) for r in lay["field"]]
+    return np.isfinite(field_path_length(p, species.charge, z_last, regions))
+
+
 def species_resolution(spec, tables, species, lay: dict, p_mev) -> dict:
     """sigma(p)/p (total, point-resolution and scattering parts), and the position (um) and angle (mrad)
     resolution at the origin, on the momentum grid (MeV/c). None where the species cannot reach the last plane,
     and sigma(p)/p None throughout without a momentum measurement."""
     p = np.asarray(p_mev, dtype=float)
     loss = momentum_loss_fraction(spec, tables, species, lay, p)
+    loss = np.where(clears_field(lay, species, p), loss, np.nan)
     reached = np.isfinite(loss)
     out = {c: [None] * len(p) for c in COLUMNS}
     out["momentum_GeV_c"] = (p / 1e3).tolist()
@@ -149,7 +162,7 @@ def species_resolution(spec, tables, species, lay: dict, p_mev) -> dict:
         return out
     out.update(_evaluate(model, species, p, reached))
     quick = np.array(QUICK_MOMENTA_GEV) * 1e3
-    quick_loss = momentum_loss_fraction(spec, tables, species, lay, quick)
+    quick_loss = np.where(clears_field(lay, species, quick), momentum_loss_fraction(spec, tables, species, lay, quick), np.nan)
     values = _evaluate(model, species, quick, np.isfinite(quick_loss))
     out["at_round_momenta"] = {"momentum_GeV_c": list(QUICK_MOMENTA_GEV), **values,
                                "momentum_loss_fraction": [float(v) if np.isfinite(v) else None for v in quick_loss]}
