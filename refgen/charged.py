@@ -95,8 +95,7 @@ def _walk_back(tables, species, steps, t):
     t[index] (the kinetic energy, MeV, leaving that slab) by the energy needed to enter it:
     R(T_in) = R(T_out) + x rho. nan marks energies beyond the range tables."""
     for material, areal, index in steps:
-        t_out = t[index]
-        t[index] = np.where(np.isnan(t_out), np.nan, kinetic_to_cross(tables[(material, species.key)], t_out, areal))
+        t[index] = kinetic_to_cross(tables[(material, species.key)], t[index], areal)
     return t
 
 

@@ -48,8 +48,10 @@ def range_table(stopping_of_t, t_low: float, t_high: float, points: int = 600) -
 def kinetic_to_cross(table: RangeTable, t_exit, areal_density: float):
     """Kinetic energy needed at the entry of a slab of ``areal_density`` (g/cm2) to leave it with ``t_exit``.
 
-    CSDA: R(T_in) = R(T_exit) + x rho; T_exit = 0 means just crossing it.
+    CSDA: R(T_in) = R(T_exit) + x rho; T_exit = 0 means just crossing it. nan (an energy already beyond the
+    range tables) stays nan.
     """
     t_exit = np.asarray(t_exit, dtype=float)
-    r_exit = np.where(t_exit > table.t[0], table.range_of(np.maximum(t_exit, table.t[0])), 0.0)
+    r_exit = np.where(t_exit > table.t[0], table.range_of(np.maximum(t_exit, table.t[0])),
+                      np.where(np.isnan(t_exit), np.nan, 0.0))
     return table.kinetic_for_range(r_exit + areal_density)
