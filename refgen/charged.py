@@ -11,7 +11,8 @@ from .physics.muon import muon_critical_energy
 from .physics.kinematics import beta_gamma, electron_mass, kinetic_energy, momentum_of_kinetic
 from .physics.ranges import kinetic_to_cross, range_table
 from .physics.scattering import highland_theta0, highland_valid
-from .physics.stopping import BETHE_VALID_MIN_BG, bethe_stopping, mass_stopping_power, muon_collision_stopping
+from .physics.bethe_corrections import BETHE_VALID_MIN_BG, bethe_regime_min_beta_gamma
+from .physics.stopping import bethe_stopping, mass_stopping_power, muon_collision_stopping
 from .physics.straggling import (LANDAU_REGIME_KAPPA, landau_fwhm, loss_distribution, most_probable_loss,
                                  restricted_stopping, vavilov_kappa)
 
@@ -30,10 +31,13 @@ FC_PER_CARRIER = 1.602176634e-4  # elementary charge in fC (CODATA 2018, exact)
 SHOWER_ONSET_X0 = 1.0
 
 
-def validity_edge_momentum(species) -> float:
-    """Momentum (MeV/c) below which the curve is of limited validity."""
+def validity_edge_momentum(species, medium=None) -> float:
+    """Momentum (MeV/c) below which the curve is of limited validity: for a heavy particle in a given medium
+    where the Bethe regime ends for its heaviest element (bethe_regime_min_beta_gamma), else beta gamma = 0.05."""
     if species.is_electron_like:
         return float(momentum_of_kinetic(ELECTRON_T_LOW, species.mass))
+    if medium is not None:
+        return bethe_regime_min_beta_gamma(medium.Z) * species.mass
     return BETHE_VALID_MIN_BG * species.mass
 
 
@@ -73,7 +77,7 @@ def species_curve(species, medium, x0, table, p) -> dict:
     s = mass_stopping_power(p, species.mass, species.charge, medium, x0)
     t = kinetic_energy(p, species.mass)
     r = table.range_of(np.clip(t, table.t[0], None))
-    valid = p >= validity_edge_momentum(species)
+    valid = p >= validity_edge_momentum(species, medium)
     showers = s["radiative"] >= s["collision"] if species.is_electron_like else np.zeros_like(valid)
     return {"momentum_GeV_c": p / 1e3, "kinetic_energy_MeV": t, "beta_gamma": beta_gamma(p, species.mass),
             "dedx_MeV_cm2_g": s["total"], "collision_MeV_cm2_g": s["collision"],
@@ -268,7 +272,7 @@ def round_momentum_row(species, medium, x0, table) -> dict:
     p = np.array(ROUND_MOMENTA)
     s = mass_stopping_power(p, species.mass, species.charge, medium, x0)
     t = kinetic_energy(p, species.mass)
-    valid = p >= validity_edge_momentum(species)
+    valid = p >= validity_edge_momentum(species, medium)
     r = table.range_of(np.clip(t, table.t[0], None))
     ranged = valid & ((s["radiative"] < s["collision"]) if species.is_electron_like else True)
     radiative = bool(np.any(s["radiative"][valid] >= 0.01 * s["collision"][valid]))

@@ -191,6 +191,16 @@ def atomic_shells() -> tuple:
 
 
 @functools.cache
+def barkas_function() -> tuple:
+    """(y, F(y)) rows of the Ashley-Ritchie-Brandt Barkas function (barkas_arb.csv), increasing in y."""
+    rows = tuple((_number("barkas_arb.csv", n, row, "y"), _number("barkas_arb.csv", n, row, "F"))
+                 for n, row in _read_rows("barkas_arb.csv"))
+    if any(b[0] <= a[0] or b[1] <= 0 for a, b in zip(rows, rows[1:])):
+        raise DataFileError("barkas_arb.csv: y must increase and F be positive")
+    return rows
+
+
+@functools.cache
 def methods() -> tuple:
     """The methods table shown on the methods-and-validity page (methods.csv)."""
     return tuple(MappingProxyType(row) for _, row in _read_rows("methods.csv"))

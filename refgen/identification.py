@@ -20,7 +20,7 @@ from .physics.identification import (SEPARATION_SIGMAS, combined_time_resolution
                                      separated_ranges, threshold_counter_separation, time_difference_ps,
                                      tof_separation_momentum, truncated_mean_resolution,
                                      truncated_mean_resolution_valid, TRUNCATION_VALID)
-from .physics.stopping import BETHE_VALID_MIN_BG
+from .physics.bethe_corrections import BETHE_VALID_MIN_BG
 from .physics.straggling import landau_xi
 from .radiators import _index_function
 

@@ -11,7 +11,8 @@ from .physics.cherenkov import (cherenkov_angle, photons_per_cm, refractive_inde
 from .physics.identification import ring_angle_separation
 from .physics.kinematics import kinetic_energy, momentum_of_kinetic
 from .physics.scintillation import birks_light_stopping, birks_light_thin
-from .physics.stopping import BETHE_VALID_MIN_BG, bethe_stopping
+from .physics.bethe_corrections import BETHE_VALID_MIN_BG
+from .physics.stopping import bethe_stopping
 
 RING_SIGMAS = 3.0
 PROTON_QUENCH_ENERGIES_MEV = (2.0, 5.0, 10.0, 50.0, 100.0)

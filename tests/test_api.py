@@ -3,7 +3,7 @@ import inspect
 
 import refgen
 from refgen import build, changes, cli, report, spec
-from refgen.physics import (bremsstrahlung, cherenkov, density_effect, kinematics, muon, nuclear, photons, radlen, ranges,
+from refgen.physics import (bethe_corrections, bremsstrahlung, cherenkov, density_effect, kinematics, muon, nuclear, photons, radlen, ranges,
                             scattering, scintillation, showers, stopping, straggling)
 
 SURFACE = {
@@ -12,6 +12,8 @@ SURFACE = {
     kinematics: ["beta_gamma", "kinetic_energy", "momentum_of_kinetic", "w_max"],
     density_effect: ["sternheimer_delta", "sternheimer_peierls_parameters", "oscillator_strengths",
                      "oscillator_delta_table", "density_correction"],
+    bethe_corrections: ["shell_correction", "barkas_correction", "bloch_correction", "oscillator_stopping_number",
+                        "bethe_regime_min_beta_gamma"],
     bremsstrahlung: ["radiative_stopping", "element_radiative_stopping", "three_bn", "elwert_factor"],
     stopping: ["bethe_stopping", "shell_correction", "bloch_correction", "electron_collision_stopping",
                "electron_radiative_stopping", "mass_stopping_power", "muon_collision_stopping"],

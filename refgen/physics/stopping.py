@@ -1,80 +1,34 @@
 """Mean energy loss (mass stopping power, MeV cm2/g) of charged particles.
 
-Heavy charged particles: the Bethe equation with the full W_max, the density effect, the shell correction
-and the Bloch correction. Electrons and positrons: the Rohrlich-Carlson collision stopping power (ICRU
-Report 37) plus the radiative stopping power from the bremsstrahlung cross section. Inputs: momentum p in MeV/c (arrays), mass in MeV/c^2, charge
-z in units of e.
+Heavy charged particles: the Bethe equation with the full W_max, the density effect, the shell correction,
+the Barkas term and the Bloch correction (refgen.physics.bethe_corrections). Electrons and positrons: the
+Rohrlich-Carlson collision stopping power (ICRU Report 37) plus the radiative stopping power from the
+bremsstrahlung cross section. Inputs: momentum p in MeV/c (arrays), mass in MeV/c^2, charge z in units of e.
 """
 from __future__ import annotations
 
 import math
 
 import numpy as np
-from scipy.special import digamma, zeta
 
 from .. import datafiles
+from .bethe_corrections import barkas_correction, bloch_correction, shell_correction
 from .density_effect import density_correction
 from .bremsstrahlung import radiative_stopping
 from .kinematics import beta_of, electron_mass, gamma_of, kinetic_energy, w_max
 from .muon import muon_radiative_stopping
 
-BETHE_VALID_MIN_BG = 0.05  # below this the Bethe equation fails (Review of Particle Physics 2024, Fig. 34.1)
-SHELL_FORMULA_MIN_ETA = 0.13  # Barkas-Berger formula is fitted for eta = beta gamma >= 0.13
-
-
-def shell_correction(bg, i_ev: float):
-    """Total shell correction C (dimensionless; the Bethe bracket takes -C/Z).
-
-    Barkas & Berger (1964) empirical formula as given in W. R. Leo, Techniques for Nuclear and Particle
-    Physics Experiments (1994), Eq. 2.33:
-        C = (0.422377 eta^-2 + 0.0304043 eta^-4 - 0.00038106 eta^-6) 1e-6 I^2
-          + (3.858019 eta^-2 - 0.1667989 eta^-4 + 0.00157955 eta^-6) 1e-9 I^3,   I in eV, eta = beta gamma.
-    Valid for eta >= 0.13; below that eta is held at 0.13 (the region is flagged as of limited validity).
-    """
-    eta = np.maximum(np.asarray(bg, dtype=float), SHELL_FORMULA_MIN_ETA)
-    e2 = 1.0 / (eta * eta)
-    e4 = e2 * e2
-    e6 = e4 * e2
-    return ((0.422377 * e2 + 0.0304043 * e4 - 0.00038106 * e6) * 1e-6 * i_ev ** 2
-            + (3.858019 * e2 - 0.1667989 * e4 + 0.00157955 * e6) * 1e-9 * i_ev ** 3)
-
-
-_ZETA_ODD = tuple(float(zeta(2 * k + 3)) for k in range(10))  # zeta(3), zeta(5), ... for the Bloch series
-BLOCH_SERIES_MAX_Y = 0.3
-
-
-def bloch_correction(beta, z: int):
-    """Bloch correction to the stopping number, -y^2 sum_n 1/(n (n^2 + y^2)) = psi(1) - Re psi(1 + i y),
-    y = z alpha / beta (psi the digamma function).
-
-    F. Bloch, Ann. Phys. 16 (1933) 285; Review of Particle Physics 2024, Sec. 34.2.5. Matters for large z
-    and small beta; it is added to the Bethe bracket. For y < 0.3 the equivalent power series
-    -y^2 sum_k (-1)^k zeta(2k+3) y^(2k) is used (10 terms; truncation below 1e-10 relative there).
-    """
-    alpha = datafiles.constant("fine_structure")
-    y = z * alpha / np.asarray(beta, dtype=float)
-    y2 = y * y
-    series = np.zeros_like(y2)
-    for k in reversed(range(len(_ZETA_ODD))):
-        series = _ZETA_ODD[k] - y2 * series
-    out = -y2 * series
-    big = y >= BLOCH_SERIES_MAX_Y
-    if np.any(big):
-        out = np.where(big, float(digamma(1.0)) - np.real(digamma(1.0 + 1j * np.where(big, y, 1.0))), out)
-    return out
-
-
 def bethe_stopping(p, mass: float, z: int, medium, spin_half: bool = False):
     """Mean mass stopping power of a heavy charged particle, MeV cm2/g.
 
-    Review of Particle Physics 2024, Eq. 34.5, with W_max of Eq. 34.4:
+    Review of Particle Physics 2024, Eqs. 34.4-34.5, with the corrections of its Sec. 34.2.5:
         -<dE/dx> = K z^2 <Z/A> (1/beta^2) [ 1/2 ln(2 m_e c^2 beta^2 gamma^2 W_max / I^2) - beta^2 - delta/2
-                   - C/Z + L_Bloch ]
-    K = 0.307075 MeV cm2/mol. Validity: accurate to about 1% for 0.1 <~ beta gamma <~ 1000 for muons to
-    alpha particles; below beta gamma ~ 0.05 the equation fails (BETHE_VALID_MIN_BG). The Barkas z^3
-    correction is not included (it changes dE/dx by under 1% above beta gamma ~ 0.3). With ``spin_half`` the
-    bracket takes the spin-1/2 term + (1/8) (W_max / E)^2 of a point-like Dirac particle of total energy E
-    (Groom, Mokhov & Striganov, At. Data Nucl. Data Tables 78 (2001) 183, Eq. 2; used for muons).
+                   - C/Z + z L1 + L_Bloch ]
+    K = 0.307075 MeV cm2/mol; C/Z the oscillator shell correction, L1 the Barkas term of Ashley, Ritchie &
+    Brandt, L_Bloch Bloch's (refgen.physics.bethe_corrections). Validity: from x = v^2/(Z v0^2) = 1 of the
+    heaviest element and beta gamma >= 0.05 up (bethe_regime_min_beta_gamma) to beta gamma ~ 1000. With
+    ``spin_half`` the bracket takes the spin-1/2 term + (1/8) (W_max / E)^2 of a point-like Dirac particle of
+    total energy E (Groom, Mokhov & Striganov, At. Data Nucl. Data Tables 78 (2001) 183, Eq. 2; used for muons).
     """
     me = electron_mass()
     bg = np.asarray(p, dtype=float) / mass
@@ -86,7 +40,8 @@ def bethe_stopping(p, mass: float, z: int, medium, spin_half: bool = False):
     i_mev = medium.i_ev * 1e-6
     log_term = 0.5 * np.log(2.0 * me * bg2 * wmax / i_mev ** 2)
     bracket = (log_term - b2 - 0.5 * density_correction(bg, medium)
-               - shell_correction(bg, medium.i_ev) / medium.z_eff + bloch_correction(beta, z))
+               - shell_correction(beta, medium.shell_oscillators) + z * barkas_correction(beta, medium.Z, medium.A, medium.w)
+               + bloch_correction(beta, z))
     if spin_half:
         bracket = bracket + 0.125 * (wmax / (gamma * mass)) ** 2
     return datafiles.constant("dedx_constant_K") * z ** 2 * medium.z_over_a / b2 * bracket
