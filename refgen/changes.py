@@ -160,6 +160,7 @@ _LEAVES = {
     "landau_kappa": ("Vavilov kappa", ""),
     "survival_probability": ("hadron survival to {}", ""),
     "z_eff": ("effective Z", ""),
+    "bethe_valid_min_beta_gamma": ("lowest beta gamma of the Bethe regime", ""),
     "z_over_a": ("<Z/A>", "mol/g"),
     "photon_conversion_probability_at_1_GeV": ("photon conversion probability at 1 GeV", ""),
     "photon_conversion_probability_high_energy": ("photon conversion probability at high energy", ""),

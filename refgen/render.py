@@ -256,7 +256,8 @@ def material_figures(report: dict, name: str) -> dict[str, tuple]:
     mi = report["key_numbers"]["materials"][name]["min_ionization"]
     mark = (mi["beta_gamma"] * 0.1056583755, mi["dedx_MeV_cm2_g"],
             f"muon minimum: {mi['dedx_MeV_cm2_g']:.3f} MeV cm²/g\nat βγ = {mi['beta_gamma']:.2f}")
-    edge = "limited validity\n(Bethe below βγ = 0.05;\nelectrons below 10 keV)"
+    edge = (f"limited validity\n(Bethe below βγ = {report['key_numbers']['materials'][name]['bethe_valid_min_beta_gamma']:.3g};"
+            "\nelectrons below 10 keV)")
     out = {
         f"fig/dedx-{slug}.svg": _job("dedx_figure", dedx, mark, edge),
         f"fig/range-{slug}.svg": _job("species_curves", rng, "momentum (GeV/c)", "CSDA range (g/cm²)", edge),

@@ -13,6 +13,7 @@ from . import __version__, attenuation, calorimetry, charged, identification, ma
 from .cache import cached_map
 from .changes import spec_summary
 from .model import SYSTEM_KINDS, TRACKING_VOLUME_DEFINITION, Spec
+from .physics.bethe_corrections import bethe_regime_min_beta_gamma
 from .physics.medium import medium_of
 from .physics.radlen import radiation_length
 from .spec import safe_name
@@ -118,6 +119,7 @@ def material_physics(m, photon_energies) -> dict:
     numbers = material_numbers(m)
     numbers["density_effect_source"] = medium.de_source
     numbers["z_eff"] = medium.z_eff
+    numbers["bethe_valid_min_beta_gamma"] = bethe_regime_min_beta_gamma(medium.Z)
     numbers["radiation_length_g_cm2"] = x0
     numbers["radiation_length_cm"] = x0 / m.density
     bg, dedx = min_ion = charged.minimum_ionization(medium)
