@@ -10,7 +10,7 @@ from mucoeff import Flag, mu
 from refgen.attenuation import element_symbol_and_mass, symbols_of
 from refgen.materials import library_material
 from refgen.physics.photons import (PAIR_SEAM_MEV, crossover_energies, dominant_process, element_coefficients,
-                                    mixture_coefficients, pair_nuclear)
+                                    mixture_coefficients, pair_electron, pair_nuclear)
 from refgen.spec import parse_spec
 from refgen.physics.radlen import radiation_length
 
@@ -61,9 +61,9 @@ CASES = [
     ("iron", "coherent", LOW[2:], 0.07),       # reached 6.5% (50 keV)
     ("sodium-iodide", "coherent", LOW[2:], 0.12),  # reached 11.4% (80 keV)
     ("lead", "coherent", LOW[4:], 0.10),       # 100 keV - 1 MeV; at 80 keV the compilations differ by 44%
-    ("water", "pair", HIGH, 0.03),             # reached 2.6%: hydrogen's triplet is now +15% like every Z (gap below)
-    ("silicon", "pair", HIGH, 0.03),           # reached 3.0%
-    ("iron", "pair", HIGH, 0.035),             # aim missed: +3.3% at 5 MeV (the F0 gap documented below)
+    ("water", "pair", HIGH, 0.03),             # reached 1.9% (nuclear field and triplet)
+    ("silicon", "pair", HIGH, 0.03),           # reached 2.7%
+    ("iron", "pair", HIGH, 0.035),             # aim missed: +3.2% at 5 MeV (the F0 gap documented below)
 ]
 
 
@@ -276,13 +276,27 @@ def test_photoelectric_just_above_the_evaluated_tables():
         assert np.max(np.abs(user_deviation(name, MEV_1_50[:3], "photoelectric"))) <= 0.06, name
 
 
-TRIPLET_GAP = ("documented gap: triplet production is Tsai's high-energy screened form times the threshold factor "
-               "(1 - 4 m_e c^2/E)^2, not a cross section valid from threshold (Haug 1975; Mork 1967): it is "
-               "+10 to +16 % high from 3 to 50 MeV for every Z; under 0.3 % of the total for Z >= 6, and the "
-               "Compton = pair crossovers of hydrogen and helium stay within 2.3 %")
+# the compilation's own energy nodes from 2.8 MeV (no interpolation in the reference)
+TRIPLET_NODES_MEV = np.array([2.8, 3.2, 3.5, 4.0, 4.5, 5.0, 5.5, 6.3, 7.0, 8.0, 9.0, 10.0, 12.5, 16.0, 20.0, 25.0,
+                              32.0, 40.0, 50.0])
 
 
-@pytest.mark.xfail(strict=True, reason=TRIPLET_GAP)
-@pytest.mark.parametrize("name", ["lead", "water", "graphite"])
-def test_triplet_from_threshold(name):
-    assert np.max(np.abs(user_deviation(name, PAIR_MEV, "pair_electron"))) <= 0.05
+def test_triplet_from_threshold_in_user_materials():
+    # was a strict xfail (+10 to +16 % from 3 to 50 MeV: Tsai's high-energy form times a threshold factor). On the
+    # compilation's own nodes from 2.8 MeV: between nodes its reader interpolates linearly in energy, which at
+    # 3.0 MeV puts the reference 5 % above its own curve (nodes 2.8 and 3.2 MeV bracket it)
+    for name in ("lead", "water", "graphite", "sodium-iodide"):
+        assert np.max(np.abs(user_deviation(name, TRIPLET_NODES_MEV, "pair_electron"))) <= 0.025, name  # reached 2.2 %
+
+
+def triplet_deviation(z, e):
+    symbol, a = element_symbol_and_mass(z)
+    return pair_electron(e, z, a) / mu(Flag.MU_TRIPLET, z, e * 1e3) - 1.0
+
+
+@pytest.mark.parametrize("first, tol", [(2.8, 0.025), (3.2, 0.015)])
+def test_triplet_every_element_on_the_compilation_nodes(first, tol):
+    # free-electron QED cross section times Tsai's screening factor; reached 2.4 % at 2.8 MeV (Z = 95) and 1.3 %
+    # from 3.2 to 50 MeV for every Z = 1-98 (median 0.6 %)
+    e = TRIPLET_NODES_MEV[TRIPLET_NODES_MEV >= first]
+    assert max(np.max(np.abs(triplet_deviation(z, e))) for z in range(1, 99)) <= tol
