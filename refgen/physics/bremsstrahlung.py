@@ -11,10 +11,15 @@ Berger (Nucl. Instrum. Meth. B 12 (1985) 95) also join:
     Coulomb correction f(Z) of Davies, Bethe & Maximon (Tsai, Rev. Mod. Phys. 46 (1974) 815, Eqs. 3.9, 3.38-3.41):
         k dsigma/dk = alpha r_e^2 { (4/3 - 4/3 y + y^2) [Z^2 (phi1 - 4/3 ln Z - 4 f) + Z (psi1 - 8/3 ln Z)]
                       + (2/3) (1 - y) [Z^2 (phi1 - phi2) + Z (psi1 - psi2)] },  y = k / E0.
-Electron-electron bremsstrahlung: the Z term, with the screening of psi1, psi2 and, at low energy, the same
-Born spectrum per unit charge cut at the kinematic limit of electron-electron collisions,
-k_max = m_e c^2 T / (E0 + m_e c^2 - p0 c). Positrons: the electron result times the ratio of Kim, Pratt,
-Seltzer & Berger (Phys. Rev. A 33 (1986) 3002) in a published seven-term fit (from memory).
+Electron-electron bremsstrahlung, the Z term: below EE_SEAM_MEV, Z times the energy-loss cross section on a free
+electron at rest from the lowest-order QED amplitude of all eight graphs with exchange (Haug, Z. Naturforsch. 30a
+(1975) 1099; computed by refgen.physics.ee_bremsstrahlung and tabulated), times the screening factor of Tsai's
+electron term (psi1, psi2 screened over unscreened, integrated over k up to the e-e kinematic limit
+k_max = m_e c^2 T / (E0 + m_e c^2 - p0 c)); above it Tsai's screened electron term, which the product approaches
+(the free e-e value tends to the unscreened Bethe-Heitler value per unit charge). At low energy the e-e value is far
+below the electron-nucleus value per unit charge (two identical particles radiate no dipole). Positrons: the
+electron result times the ratio of Kim, Pratt, Seltzer & Berger (Phys. Rev. A 33 (1986) 3002) in a published
+seven-term fit (from memory); the positron-electron (Bhabha) bremsstrahlung itself is not computed.
 Validity: 1 MeV - 10 GeV and above (complete screening). Accuracy measured in tests/physics/test_stopping.py:
 light and medium Z within 3 % from 1 MeV; high Z low below a few MeV (the Born-Elwert form misses the exact
 partial-wave result there).
@@ -33,6 +38,7 @@ from .radlen import coulomb_correction, radiation_logs, tsai_screening
 
 MATCH_LOW_MEV = 2.0  # below: the low-energy (Born-Elwert) form alone
 MATCH_HIGH_MEV = 50.0  # above: Tsai's high-energy form alone
+EE_SEAM_MEV = (100.0, 1000.0)  # electron term: the free-electron QED table below, Tsai's screened term above
 T_GRID_MEV = np.geomspace(1e-2, 1e5, 141)  # kinetic energies at which each element is integrated, then interpolated
 _U_NODES, _U_WEIGHTS = np.polynomial.legendre.leggauss(96)
 
@@ -86,9 +92,34 @@ def tsai_brackets(e0, k, z: int):
     return nucleus, electrons, unscreened, a1
 
 
+@functools.cache
+def _free_electron_interpolator():
+    from scipy.interpolate import CubicSpline
+    t, phi = (np.asarray(v) for v in datafiles.ee_bremsstrahlung_free_electron())
+    return CubicSpline(np.log(t), np.log(phi))
+
+
+def free_electron_energy_loss(t_mev):
+    """Radiative energy-loss cross section of electron-electron bremsstrahlung per free electron at rest,
+    integral k dsigma, in units of alpha r_e^2 m_e c^2, at kinetic energies t_mev (MeV, 10 keV - 1 GeV).
+
+    The lowest-order QED result of all eight graphs with exchange (Haug, Z. Naturforsch. 30a (1975) 1099),
+    integrated numerically by refgen.physics.ee_bremsstrahlung and tabulated in ee_bremsstrahlung_free_electron.csv;
+    interpolated by a cubic spline in (ln T, ln phi), clamped to the table's range. No screening, binding or
+    Coulomb correction."""
+    t, _ = datafiles.ee_bremsstrahlung_free_electron()
+    x = np.log(np.clip(np.asarray(t_mev, dtype=float) / electron_mass(), t[0], t[-1]))
+    return np.exp(_free_electron_interpolator()(x))
+
+
 def element_radiative_stopping(t_mev, z: int, a: float):
     """Radiative stopping power of electrons in element Z, MeV cm2/g, at kinetic energies t_mev (array):
-    N_A/A times the photon-energy integral of k dsigma/dk (Gauss-Legendre, 96 nodes in k/T)."""
+    N_A/A times the photon-energy integral of k dsigma/dk (Gauss-Legendre, 96 nodes in k/T).
+
+    Nucleus (Z^2) term: Koch-Motz 3BN with the Elwert factor and the screening ratio below MATCH_LOW_MEV, Tsai with
+    the Coulomb correction above MATCH_HIGH_MEV. Electron (Z) term: Z times the free-electron QED energy-loss cross
+    section (free_electron_energy_loss) times the screening factor of Tsai's electron term (screened / unscreened,
+    integrated over k up to the e-e kinematic limit), joined across EE_SEAM_MEV to Tsai's screened electron term."""
     me = electron_mass()
     alpha = datafiles.constant("fine_structure")
     re = datafiles.constant("classical_electron_radius")
@@ -98,17 +129,21 @@ def element_radiative_stopping(t_mev, z: int, a: float):
     k = t[:, None] * u[None, :]
     wk = t[:, None] * 0.5 * _U_WEIGHTS[None, :]
     nucleus, electrons, unscreened, a1 = tsai_brackets(e0, k, z)
-    high = z * z * np.maximum(nucleus - 4.0 * float(coulomb_correction(z)) * a1, 0.0) + z * np.maximum(electrons, 0.0)
-    low_nucleus = z * z * three_bn(e0, k) * elwert_factor(e0, k, z) * np.clip(nucleus / unscreened, 0.0, 1.0)
-    # electron-electron term at low energy: its own nodes up to the kinematic limit k_max
+    nucleus_high = z * z * np.sum(wk * np.maximum(nucleus - 4.0 * float(coulomb_correction(z)) * a1, 0.0), axis=1)
+    nucleus_low = z * z * np.sum(wk * three_bn(e0, k) * elwert_factor(e0, k, z)
+                                 * np.clip(nucleus / unscreened, 0.0, 1.0), axis=1)
+    electrons_high = z * np.sum(wk * np.maximum(electrons, 0.0), axis=1)
+    # screening factor of the electron term: Tsai's screened over unscreened, up to the e-e kinematic limit k_max
     p0 = np.sqrt(e0 * e0 - 1.0)
     k_ee = (e0 - 1.0) / (e0 + 1.0 - p0) * u[None, :]
-    w_ee = k_ee / u[None, :] * 0.5 * _U_WEIGHTS[None, :]
     _, electrons_ee, unscreened_ee, _ = tsai_brackets(e0, k_ee, z)
-    low_electrons = z * three_bn(e0, k_ee) * np.clip(electrons_ee / unscreened_ee, 0.0, 1.0)
-    low = np.sum(wk * low_nucleus, axis=1) + np.sum(w_ee * low_electrons, axis=1)
-    s = seam_weight(t * me, (MATCH_LOW_MEV, MATCH_HIGH_MEV))
-    integral = (1.0 - s) * low + s * np.sum(wk * high, axis=1)
+    screening = np.clip(np.sum(_U_WEIGHTS * np.maximum(electrons_ee, 0.0), axis=1)
+                        / np.sum(_U_WEIGHTS * unscreened_ee, axis=1), 0.0, 1.0)
+    electrons_low = z * free_electron_energy_loss(t * me) * screening
+    s_nucleus = seam_weight(t * me, (MATCH_LOW_MEV, MATCH_HIGH_MEV))
+    s_electrons = seam_weight(t * me, EE_SEAM_MEV)
+    integral = ((1.0 - s_nucleus) * nucleus_low + s_nucleus * nucleus_high
+                + (1.0 - s_electrons) * electrons_low + s_electrons * electrons_high)
     return datafiles.constant("avogadro") / a * alpha * re ** 2 * me * integral
 
 
