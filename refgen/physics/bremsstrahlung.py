@@ -74,16 +74,21 @@ def elwert_factor(e0, k, z: int):
 def tsai_brackets(e0, k, z: int):
     """Tsai's (1974) Eq. 3.9 brackets without the Coulomb correction: (nucleus per Z^2, electrons per Z, the
     unscreened value of either, and the factor 4/3 - 4/3 y + y^2). For Z <= 4 the Thomas-Fermi constants are
-    shifted to Tsai's tabulated complete-screening logarithms (Table B.2)."""
+    shifted to Tsai's tabulated complete-screening logarithms (Table B.2) in proportion to the degree of screening
+    1 / (1 + x^2), x = 0.55846 gamma (nucleus) or 3.621 eps (electrons), the argument of the logarithm in Tsai's
+    Eqs. 3.38-3.41: the full shift at complete screening, none where screening does not act (so that the screening
+    factor tends to 1 at low energy). This fade between the two limits Tsai gives is refgen's choice."""
     e = e0 - k
     y = k / e0
     gamma = 100.0 * k / (e0 * e * z ** (1.0 / 3.0))
     eps = 100.0 * k / (e0 * e * z ** (2.0 / 3.0))
     phi1, phi2, psi1, psi2 = tsai_screening(gamma, eps)
     lnz = math.log(z)
-    l_rad, l_rad_prime = radiation_logs(z)
-    dphi = 4.0 * (l_rad - (math.log(184.15) - lnz / 3.0)) if z <= 4 else 0.0
-    dpsi = 4.0 * (l_rad_prime - (math.log(1194.0) - 2.0 * lnz / 3.0)) if z <= 4 else 0.0
+    dphi = dpsi = 0.0
+    if z <= 4:
+        l_rad, l_rad_prime = radiation_logs(z)
+        dphi = 4.0 * (l_rad - (math.log(184.15) - lnz / 3.0)) / (1.0 + (0.55846 * gamma) ** 2)
+        dpsi = 4.0 * (l_rad_prime - (math.log(1194.0) - 2.0 * lnz / 3.0)) / (1.0 + (3.621 * eps) ** 2)
     a1 = 4.0 / 3.0 - 4.0 / 3.0 * y + y * y
     a2 = 2.0 / 3.0 * (1.0 - y)
     nucleus = a1 * (phi1 + dphi - 4.0 / 3.0 * lnz) + a2 * (phi1 - phi2)
