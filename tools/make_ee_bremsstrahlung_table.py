@@ -3,7 +3,7 @@ electron-electron bremsstrahlung, phi_ee(T) = integral k dsigma per free target 
 1 GeV, computed by refgen.physics.ee_bremsstrahlung (the lowest-order QED amplitude of all eight graphs, integrated
 numerically over the three-body phase space with TABLE_NODES Gauss-Legendre nodes).
 
-Run: python tools/make_ee_bremsstrahlung_table.py > refgen/data/ee_bremsstrahlung_free_electron.csv   (about 8 minutes)
+Run: python tools/make_ee_bremsstrahlung_table.py > refgen/data/ee_bremsstrahlung_free_electron.csv   (about 15 minutes)
 The test tests/physics/test_stopping.py recomputes one row and compares it with the committed file.
 """
 from __future__ import annotations
