@@ -20,8 +20,8 @@ import math
 
 import numpy as np
 
-from .qed_tree import four_graph_amplitude, transverse_polarisations
-from .triplet import _boost, _spinors, _unit, minkowski
+from .qed_tree import (boost, four_graph_amplitude, gauss_nodes, minkowski, spinors, transverse_polarisations,
+                       unit_vectors)
 
 TABLE_NODES = (16, 16, 16, 24)  # quadrature nodes of the table (see energy_loss_cross_section)
 TABLE_T = tuple(float(f"{v:.4g}") for v in np.geomspace(0.02, 2000.0, 41))  # T / m_e c^2: 10 keV - 1 GeV
@@ -31,16 +31,11 @@ def squared_amplitude(p0, p1, p2, p3, k, polarisations):
     """Sum over all spins and the given photon polarisations of |M|^2 / e^6, M the eight-graph amplitude of
     e-(p0) e-(p1) -> e-(p2) e-(p3) gamma(k); all momenta (N, 4), polarisations (N, npol, 4) (transverse ones for the
     physical sum; k itself tests gauge invariance)."""
-    u0, u1, u2, u3 = (_spinors(p, False) for p in (p0, p1, p2, p3))
+    u0, u1, u2, u3 = (spinors(p, False) for p in (p0, p1, p2, p3))
     direct = four_graph_amplitude(polarisations, k, (u2, p2, u0, p0), (u3, p3, u1, p1))  # (N, pol, s2, s0, s3, s1)
     exchange = four_graph_amplitude(polarisations, k, (u3, p3, u0, p0), (u2, p2, u1, p1))  # (N, pol, s3, s0, s2, s1)
     total = direct - np.transpose(exchange, (0, 1, 4, 3, 2, 5))
     return np.sum(np.abs(total) ** 2, axis=(1, 2, 3, 4, 5))
-
-
-def _gauss(n, lo, hi):
-    x, w = np.polynomial.legendre.leggauss(n)
-    return lo + (hi - lo) * 0.5 * (x + 1.0), (hi - lo) * 0.5 * w
 
 
 def _grid(*axes):
@@ -63,12 +58,12 @@ def _photon_directions(axes, xr, phi):
     Gauss-Legendre and azimuth weights. Returns the directions (N C, 3) and those factors (N C,), channel after
     channel (the caller tiles its other arrays C times).
     """
-    units = [_unit(p[:, 1:]) for p in axes]
+    units = [unit_vectors(p[:, 1:]) for p in axes]
     betas = [np.clip(np.linalg.norm(p[:, 1:], axis=1) / p[:, 0], 1e-12, 1.0 - 1e-15) for p in axes]
     spans = [np.log1p(b) - np.log1p(-b) for b in betas]
     directions, weights = [], []
     for z_axis, b, span in zip(units, betas, spans):
-        x_axis = _unit(np.cross(z_axis, np.array([0.0, 1.0, 0.0])))
+        x_axis = unit_vectors(np.cross(z_axis, np.array([0.0, 1.0, 0.0])))
         y_axis = np.cross(z_axis, x_axis)
         v = np.log1p(-b) + span * 0.5 * (xr + 1.0)
         cos_k = -np.expm1(v) / b
@@ -102,7 +97,7 @@ def energy_loss_cross_section(t: float, nodes=TABLE_NODES, gauge_check: bool = F
     s = 2.0 + 2.0 * e0
     w_cm = math.sqrt(s)
     m_span = w_cm - 2.0  # M_X - 1 runs from 0 to sqrt(s) - 2
-    zm, wz = _gauss(n_m, math.log(m_span * 1e-6), math.log(m_span))
+    zm, wz = gauss_nodes(n_m, math.log(m_span * 1e-6), math.log(m_span))
     mx = 1.0 + np.exp(zm)
     wm = wz * np.exp(zm) * 2.0 * mx / (2.0 * math.pi)  # dM_X^2 / 2 pi
     # recoil in the centre-of-mass frame: the |t| range for each M_X
@@ -133,7 +128,7 @@ def energy_loss_cross_section(t: float, nodes=TABLE_NODES, gauge_check: bool = F
     p3 = np.column_stack([e_rec[i_m], pr * sin3, np.zeros(n), -pr * (1.0 - one_minus_cos)])
     X = p0 + p1 - p3
     beta = X[:, 1:] / X[:, 0:1]
-    d, channel_weight = _photon_directions([_boost(p, beta) for p in (p0, p1, p3)], XR, PH)
+    d, channel_weight = _photon_directions([boost(p, beta) for p in (p0, p1, p3)], XR, PH)
     channels = len(channel_weight) // n
     M, T, W, beta, X, p0, p1, p3 = (np.tile(a, channels) if a.ndim == 1 else np.tile(a, (channels, 1))
                                     for a in (M, T, W, beta, X, p0, p1, p3))
@@ -141,7 +136,7 @@ def energy_loss_cross_section(t: float, nodes=TABLE_NODES, gauge_check: bool = F
     W = W * channel_weight
     omega = (M * M - 1.0) / (2.0 * M)
     kx = omega[:, None] * np.column_stack([np.ones(n), d])
-    k = _boost(kx, -beta)  # centre-of-mass frame
+    k = boost(kx, -beta)  # centre-of-mass frame
     p2 = X - k
     W = W * omega / (16.0 * math.pi ** 2 * M)  # dPhi_2(X -> p2 + k) per solid angle
     t2 = -minkowski(p2 - p1, p2 - p1)
