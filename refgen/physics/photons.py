@@ -109,12 +109,15 @@ def incoherent(e, symbol: str, z: int, a: float):
     return np.where(e <= MATCH_MEV, elam, free * s_high)
 
 
-def _energy_sharing_nodes(kappa):
-    """Gauss-Legendre nodes and weights of the pair's energy sharing x (electron energy / photon energy) from
-    1/kappa to 1/2, kappa = E / m_e c^2 (kappa, column of shape (n, 1)); the pair cross sections are symmetric in
-    x, so integrals run to 1/2 and are doubled."""
+def _energy_sharing_nodes(e):
+    """(e as an array, mask of e above the pair threshold 2 m_e c^2, kappa = E / m_e c^2 of those as a column,
+    Gauss-Legendre nodes x and weights of the pair's energy sharing x = electron energy / photon energy from
+    1/kappa to 1/2). The pair cross sections are symmetric in x, so their integrals run to 1/2 and are doubled."""
+    e = np.atleast_1d(np.asarray(e, dtype=float))
+    ok = e > 2.0 * electron_mass()
+    kappa = e[ok][:, None] / electron_mass()
     lo = 1.0 / kappa
-    return lo + (0.5 - lo) * 0.5 * (_X_NODES[None, :] + 1.0), (0.5 - lo) * 0.5 * _X_WEIGHTS[None, :]
+    return e, ok, kappa, lo + (0.5 - lo) * 0.5 * (_X_NODES[None, :] + 1.0), (0.5 - lo) * 0.5 * _X_WEIGHTS[None, :]
 
 
 def tsai_pair(e, z: int):
@@ -129,19 +132,13 @@ def tsai_pair(e, z: int):
     unscreened limit stays the plain Bethe-Heitler one (a constant shift made the electron-field term of H and He
     vanish below about 6 MeV).
     """
-    me = electron_mass()
     alpha = datafiles.constant("fine_structure")
     re = datafiles.constant("classical_electron_radius")
-    e = np.atleast_1d(np.asarray(e, dtype=float))
+    e, ok, kappa, x, wx = _energy_sharing_nodes(e)
     out_n, out_e = np.zeros_like(e), np.zeros_like(e)
-    ok = e > 2.0 * me
-    if not ok.any():
-        return out_n, out_e
-    k = e[ok][:, None]
-    x, wx = _energy_sharing_nodes(k / me)
     xx = x * (1.0 - x)
-    gamma = 100.0 * me / k / xx * z ** (-1.0 / 3.0)
-    eps = 100.0 * me / k / xx * z ** (-2.0 / 3.0)
+    gamma = 100.0 / kappa / xx * z ** (-1.0 / 3.0)
+    eps = 100.0 / kappa / xx * z ** (-2.0 / 3.0)
     phi1, phi2, psi1, psi2 = tsai_screening(gamma, eps)
     lnz = math.log(z)
     f = float(coulomb_correction(z))
@@ -210,16 +207,10 @@ def baro_pair_nuclear(e, z: int):
     Valid from threshold (2 m_e c^2) for all Z; the authors quote agreement with the Hubbell-Gimm-Overbo
     evaluation within a few percent. Measured accuracy: see methods.csv.
     """
-    me = electron_mass()
     alpha = datafiles.constant("fine_structure")
     re = datafiles.constant("classical_electron_radius")
-    e = np.atleast_1d(np.asarray(e, dtype=float))
+    e, ok, kappa, x, wx = _energy_sharing_nodes(e)
     out = np.zeros_like(e)
-    ok = e > 2.0 * me
-    if not ok.any():
-        return out
-    kappa = e[ok][:, None] / me
-    x, wx = _energy_sharing_nodes(kappa)
     r = screening_radius(z)
     g1, g2 = _exponential_screening(r / (2.0 * kappa * x * (1.0 - x)))
     g0 = 4.0 * math.log(r) - 4.0 * float(coulomb_correction(z)) + low_energy_coulomb_correction(kappa, z)
@@ -249,14 +240,8 @@ def unscreened_pair_per_electron(e):
     limit, cm2: psi1/4 - 2 ln Z/3 = psi2/4 - 2 ln Z/3 -> ln(2 k x (1-x) / m_e c^2) - 1/2 (the unscreened
     Bethe-Heitler logarithm; Tsai, Rev. Mod. Phys. 46 (1974) 815, Eqs. 3.9 and 3.38-3.41 at large eps).
     The denominator of the screening factor of the triplet cross section (see pair_electron)."""
-    me = electron_mass()
-    e = np.atleast_1d(np.asarray(e, dtype=float))
+    e, ok, kappa, x, wx = _energy_sharing_nodes(e)
     out = np.zeros_like(e)
-    ok = e > 2.0 * me
-    if not ok.any():
-        return out
-    kappa = e[ok][:, None] / me
-    x, wx = _energy_sharing_nodes(kappa)
     xx = x * (1.0 - x)
     log = np.maximum(np.log(2.0 * kappa * xx) - 0.5, 0.0)
     norm = 4.0 * datafiles.constant("fine_structure") * datafiles.constant("classical_electron_radius") ** 2
