@@ -123,18 +123,28 @@ def oscillator_adjustment(f, e_ev, f_c: float, i_ev: float, plasma_ev: float) ->
 DELTA_GRID_L = np.geomspace(1e-4, 1e6, 1200)  # the grid in L on which the oscillator delta is tabulated
 
 
-def oscillator_delta_table(f, e_ev, f_c: float, i_ev: float, plasma_ev: float) -> tuple[np.ndarray, np.ndarray]:
-    """(ln beta gamma, delta) of Sternheimer's oscillator model on the grid DELTA_GRID_L (see the module
-    docstring for the equations). Rows where beta gamma is not yet defined (insulators below L = 0) are absent."""
+def sternheimer_oscillators(f, e_ev, f_c: float, i_ev: float, plasma_ev: float) -> tuple:
+    """(f_i, nu_i, l_i) of every oscillator of a material, energies in units of hbar omega_p (Sternheimer, Berger
+    & Seltzer 1984, Eqs. 4-7): nu_i = rho_s E_i / hbar omega_p and l_i = sqrt(nu_i^2 + (2/3) f_i) for the bound
+    subshells; conduction electrons are one more oscillator with nu = 0 and l = sqrt(f_c). So
+    sum_i f_i ln(l_i hbar omega_p) = ln I. Raises ValueError where oscillator_adjustment does."""
     rho = oscillator_adjustment(f, e_ev, f_c, i_ev, plasma_ev)
-    nu2 = (rho * np.asarray(e_ev) / plasma_ev) ** 2
-    l2 = nu2 + 2.0 / 3.0 * f
-    big_l2 = DELTA_GRID_L[:, None] ** 2
-    s = np.sum(f / (nu2 + big_l2), axis=1) + (f_c / big_l2[:, 0] if f_c > 0 else 0.0)
-    bg2 = 1.0 / s
-    delta = np.sum(f * np.log1p(big_l2 / l2), axis=1) - big_l2[:, 0] / (1.0 + bg2)
+    f = np.asarray(f, dtype=float)
+    nu = rho * np.asarray(e_ev, dtype=float) / plasma_ev
+    l = np.sqrt(nu * nu + 2.0 / 3.0 * f)
     if f_c > 0:
-        delta += f_c * np.log1p(big_l2[:, 0] / f_c)
+        return np.append(f, f_c), np.append(nu, 0.0), np.append(l, math.sqrt(f_c))
+    return f, nu, l
+
+
+def oscillator_delta_table(oscillators) -> tuple[np.ndarray, np.ndarray]:
+    """(ln beta gamma, delta) of Sternheimer's oscillator model on the grid DELTA_GRID_L from the oscillators
+    (f_i, nu_i, l_i) of sternheimer_oscillators (see the module docstring for the equations). Rows where beta
+    gamma is not yet defined (insulators below L = 0) are absent."""
+    f, nu, l = oscillators
+    big_l2 = DELTA_GRID_L[:, None] ** 2
+    bg2 = 1.0 / np.sum(f / (nu * nu + big_l2), axis=1)
+    delta = np.sum(f * np.log1p(big_l2 / (l * l)), axis=1) - big_l2[:, 0] / (1.0 + bg2)
     return 0.5 * np.log(bg2), np.maximum(delta, 0.0)
 
 

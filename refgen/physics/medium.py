@@ -13,7 +13,7 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from .. import datafiles
-from .density_effect import (oscillator_adjustment, oscillator_delta_table, oscillator_strengths,
+from .density_effect import (oscillator_delta_table, oscillator_strengths, sternheimer_oscillators,
                              sternheimer_peierls_parameters)
 
 TABLE_DENSITY_TOLERANCE = 0.01  # relative: a material matches a 1984 table entry within 1 % in density
@@ -89,21 +89,6 @@ def is_conductor(material) -> bool:
     return comps[0].symbol == datafiles.elements()[z - 1]["symbol"] and datafiles.atomic_shells()[z - 1]["conductor"]
 
 
-def shell_oscillators(f, e_ev, f_c: float, i_ev: float, plasma_ev: float) -> tuple[np.ndarray, np.ndarray]:
-    """(f_i, hbar omega_i in eV) of Sternheimer's oscillators (Sternheimer, Berger & Seltzer 1984, Eq. 4):
-    hbar omega_i = sqrt((rho_s E_i)^2 + (2/3) f_i (hbar omega_p)^2), and hbar omega_p sqrt(f_c) for conduction
-    electrons, so that sum_i f_i ln hbar omega_i = ln I. Where I is too low for the oscillators to reach, one
-    oscillator at I."""
-    try:
-        rho = oscillator_adjustment(f, e_ev, f_c, i_ev, plasma_ev)
-    except ValueError:
-        return np.ones(1), np.array([i_ev])
-    hw = np.sqrt((rho * np.asarray(e_ev)) ** 2 + 2.0 / 3.0 * f * plasma_ev ** 2)
-    if f_c > 0:
-        return np.append(f, f_c), np.append(hw, plasma_ev * np.sqrt(f_c))
-    return np.asarray(f), hw
-
-
 def medium_of(material) -> Medium:
     """Build the Medium of a model.Material."""
     z, a, w = material.arrays()
@@ -116,12 +101,16 @@ def medium_of(material) -> Medium:
         params = matching_table_entry(fractions, material.density, i_ev)
     de, table = None, None
     f, e, f_c = oscillator_strengths(z, a, w, is_conductor(material), datafiles.atomic_shells())
+    try:
+        osc = sternheimer_oscillators(f, e, f_c, i_ev, plasma)
+        shell = (osc[0], plasma * osc[2])  # the shell correction's oscillators: f_i and hbar omega_i in eV
+    except ValueError:  # an I too low for the oscillators to reach: general rules, and one oscillator at I
+        osc, shell = None, (np.ones(1), np.array([i_ev]))
     if params is not None:
         de, source = {k: params[k] for k in PARAMETER_KEYS}, SOURCE_TABLE
+    elif osc is not None:
+        table, source = oscillator_delta_table(osc), SOURCE_OSCILLATOR
     else:
-        try:
-            table, source = oscillator_delta_table(f, e, f_c, i_ev, plasma), SOURCE_OSCILLATOR
-        except ValueError:  # an I too low for the oscillators to reach: fall back to the general rules
-            de, source = sternheimer_peierls_parameters(i_ev, plasma, material.is_gas), SOURCE_GENERAL
+        de, source = sternheimer_peierls_parameters(i_ev, plasma, material.is_gas), SOURCE_GENERAL
     return Medium(material.name, material.z_over_a, i_ev, z_eff, material.density, plasma, material.is_gas, de,
-                  source, tuple(z), tuple(a), tuple(w), table, shell_oscillators(f, e, f_c, i_ev, plasma))
+                  source, tuple(z), tuple(a), tuple(w), table, shell)

@@ -9,7 +9,7 @@ import pytest
 from refgen import datafiles
 from refgen.materials import library_material
 from refgen.physics.density_effect import (oscillator_delta_table, oscillator_strengths, sternheimer_delta,
-                                          sternheimer_peierls_parameters, tabulated_delta)
+                                           sternheimer_oscillators, sternheimer_peierls_parameters, tabulated_delta)
 from refgen.physics.medium import is_conductor
 from refgen.physics.kinematics import momentum_of_kinetic
 from refgen.physics.medium import medium_of
@@ -90,7 +90,7 @@ def test_oscillator_delta_against_the_1984_table(key):
     m = library_material(key)
     z, a, w = m.arrays()
     f, e, f_c = oscillator_strengths(z, a, w, is_conductor(m), datafiles.atomic_shells())
-    table = oscillator_delta_table(f, e, f_c, m.mean_excitation_eV, m.plasma_energy_eV)
+    table = oscillator_delta_table(sternheimer_oscillators(f, e, f_c, m.mean_excitation_eV, m.plasma_energy_eV))
     bg = np.geomspace(1.0, 1e4, 81)
     params = {k: m.density_effect[k] for k in ("cbar", "x0", "x1", "a", "k", "delta0")}
     assert np.max(np.abs(tabulated_delta(bg, table) - sternheimer_delta(bg, **params))) <= 0.13
