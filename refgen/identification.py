@@ -20,7 +20,7 @@ from .physics.identification import (SEPARATION_SIGMAS, combined_time_resolution
                                      separated_ranges, threshold_counter_separation, time_difference_ps,
                                      tof_separation_momentum, truncated_mean_resolution,
                                      truncated_mean_resolution_valid, TRUNCATION_VALID)
-from .physics.bethe_corrections import BETHE_VALID_MIN_BG
+from .physics.bethe_corrections import bethe_regime_min_beta_gamma
 from .physics.straggling import landau_xi
 from .radiators import _index_function
 
@@ -180,7 +180,7 @@ def energy_loss(spec, p, reach: dict, groups, media) -> tuple[dict, dict, dict, 
         mpv, ok = {}, {}
         for sp in spec.species:
             mpv[sp.key] = sample_most_probable_loss(p, sp.mass, sp.charge, medium, areal)
-            ok[sp.key] = (sample_loss_valid(p, sp.mass, sp.charge, medium, areal, BETHE_VALID_MIN_BG)
+            ok[sp.key] = (sample_loss_valid(p, sp.mass, sp.charge, medium, areal, bethe_regime_min_beta_gamma(medium.Z))
                           & reach_mask(p, reach, layer.name, sp))
         losses[layer.name] = {k: np.where(ok[k], v * 1e3, np.nan) for k, v in mpv.items()}
         pairs[layer.name], curves[layer.name] = {}, {}

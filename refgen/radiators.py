@@ -11,7 +11,7 @@ from .physics.cherenkov import (cherenkov_angle, photons_per_cm, refractive_inde
 from .physics.identification import ring_angle_separation
 from .physics.kinematics import kinetic_energy, momentum_of_kinetic
 from .physics.scintillation import birks_light_stopping, birks_light_thin
-from .physics.bethe_corrections import BETHE_VALID_MIN_BG
+from .physics.bethe_corrections import bethe_regime_min_beta_gamma
 from .physics.stopping import bethe_stopping
 
 RING_SIGMAS = 3.0
@@ -129,8 +129,8 @@ def scintillator_numbers(spec, layer, layer_kn: dict, medium_of_material) -> dic
     proton = 938.27208816
     t = np.geomspace(1e-3, max(PROTON_QUENCH_ENERGIES_MEV), 2000)
     s_lin = np.maximum(bethe_stopping(momentum_of_kinetic(t, proton), proton, 1, medium), 0.0) * m.density
-    # below the Bethe equation's validity (T < 1.2 MeV) hold dE/dx at its value there: of limited validity
-    edge = float(kinetic_energy(BETHE_VALID_MIN_BG * proton, proton))
+    # below the Bethe regime (T < 1.2 MeV, higher with heavy elements) hold dE/dx at its value there: of limited validity
+    edge = float(kinetic_energy(bethe_regime_min_beta_gamma(medium.Z) * proton, proton))
     s_lin = np.where(t < edge, np.interp(edge, t, s_lin), s_lin)
     lt = birks_light_stopping(sc["light_yield_per_MeV"], sc["birks_cm_per_MeV"], t, s_lin)
     quench = [{"kinetic_energy_MeV": e, "light_photons": float(np.interp(e, t, lt)),
