@@ -93,12 +93,14 @@ def _legend(ax, **kw) -> None:
 
 
 def _draw_species(ax, series: list[dict]) -> bool:
-    """Each species' curve: valid part in its own style, the rest as the LIMITED band. True if any is limited."""
+    """Each species' curve: valid part in its own style, the rest as the LIMITED band. True if any is limited.
+    A species keeps its style (by position) in every figure; one with no valid point is not in the legend."""
     limited = False
     for i, s in enumerate(series):
         x, y, ok = np.asarray(s["x"], dtype=float), np.asarray(s["y"], dtype=float), np.asarray(s["valid"], dtype=bool)
         y = np.where(y > 0, y, np.nan)
-        ax.plot(np.where(ok, x, np.nan), np.where(ok, y, np.nan), label=species_tex(s["label"]), zorder=3, **line_style(i))
+        label = species_tex(s["label"]) if (ok & np.isfinite(y)).any() else None
+        ax.plot(np.where(ok, x, np.nan), np.where(ok, y, np.nan), label=label, zorder=3, **line_style(i))
         if (~ok).any() and np.isfinite(y[~ok]).any():
             edge = int(np.argmax(ok)) if ok.any() else len(ok) - 1
             ax.plot(x[: edge + 1], y[: edge + 1], **LIMITED)

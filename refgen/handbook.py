@@ -2,6 +2,7 @@
 downloads, search index). Plain data computed from the key numbers; templates only format it."""
 from __future__ import annotations
 
+from . import datafiles
 from .charged import REACH_STATES, SHOWER_ONSET_X0, reach_state
 from .model import SYSTEM_KINDS
 
@@ -80,6 +81,16 @@ def reach_notes() -> dict:
     return {"onset_X0": SHOWER_ONSET_X0, **REACH_STATES}
 
 
+def strongly_interacting(key: str, custom: bool) -> bool | None:
+    """Whether a species meets nuclear interactions: a hadron or nucleus by its PDG id (particle package);
+    None for a species the spec defines by mass and charge only, which says nothing of it."""
+    if custom:
+        return None
+    from particle.pdgid import is_hadron, is_nucleus
+    pdgid = datafiles.particles()[key]["pdgid"]
+    return bool(is_hadron(pdgid) or is_nucleus(pdgid))
+
+
 def species_pages(kn: dict, report: dict) -> list[dict]:
     """Per species: its numbers across materials, layers and radiators."""
     out = []
@@ -89,7 +100,7 @@ def species_pages(kn: dict, report: dict) -> list[dict]:
             row = next(r for r in rows if r["species"] == key)
             per_material.append({"material": name, **row})
         out.append({"key": key, "label": p["label"], "mass_MeV": p["mass_MeV"], "charge": p["charge"],
-                    "custom": p["custom"], "per_material": per_material,
+                    "custom": p["custom"], "strong": strongly_interacting(key, p["custom"]), "per_material": per_material,
                     "reach": reach_rows(kn, report, "reach", species=[key]),
                     "cross": reach_rows(kn, report, "cross", species=[key]),
                     "thresholds": {r: v["threshold_momentum_GeV_c"][key] for r, v in kn["radiators"].items()}})

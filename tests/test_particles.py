@@ -88,3 +88,17 @@ def test_no_shipped_table_types_masses_or_constants_from_memory():
     assert not data.joinpath("constants.csv").is_file()
     header = data.joinpath("particles.csv").read_text().splitlines()[1]
     assert header == "key,label,pdgid,codata_mass,aliases,source"  # no mass or charge column
+
+
+@pytest.mark.parametrize("key, strong", [("electron", False), ("positron", False), ("muon", False),
+                                         ("antimuon", False), ("pion", True), ("kaon-minus", True),
+                                         ("proton", True), ("antiproton", True), ("deuteron", True), ("alpha", True)])
+def test_which_built_in_species_meet_nuclear_interactions(key, strong):
+    # PDG Monte Carlo numbering scheme, through the particle package: leptons do not, hadrons and nuclei do
+    from refgen.handbook import strongly_interacting
+    assert strongly_interacting(key, custom=False) is strong
+
+
+def test_a_species_defined_by_mass_and_charge_is_not_classified():
+    from refgen.handbook import strongly_interacting
+    assert strongly_interacting("sigma-minus", custom=True) is None

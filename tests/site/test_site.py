@@ -103,3 +103,19 @@ def test_progress_per_section_and_quiet(tmp_path, capsys, monkeypatch):
     monkeypatch.setenv("CI", "true")
     assert main(["build", str(SMALL), "--out", str(tmp_path / "r")]) == 0
     assert "refgen:" not in capsys.readouterr().err
+
+
+def test_hadron_ranges_say_what_they_leave_out(built):
+    # a CSDA range of 60 000 g/cm2 for a 100 GeV/c proton is no distance a proton goes: the pages say so
+    site, _ = built
+    crystal = (site / "material-crystal.html").read_text()
+    assert "leave out nuclear interactions" in crystal and "168.2 g/cm²" in crystal
+    assert "leave out nuclear interactions" in (site / "species-proton.html").read_text()
+    assert "leave out nuclear interactions" not in (site / "species-muon.html").read_text()
+
+
+def test_range_figure_names_only_the_species_it_draws(built):
+    # in the crystal (E_c about 9 MeV) electrons shower over the whole momentum grid: no curve, so no legend entry
+    svg = (built[0] / "fig" / "range-crystal.svg").read_text()
+    assert "$e^{-}$" not in svg and "$e^{+}$" not in svg and "$\\mu^{-}$" in svg
+    assert "$e^{-}$" in (built[0] / "fig" / "range-beryllium.svg").read_text()  # E_c above 100 MeV: drawn
