@@ -86,12 +86,14 @@ def format_momentum(gev, digits: int = 3, exact: bool = False) -> str:
     return f"{format_number(gev, digits, trim=exact)} GeV/c"
 
 
-def format_probability(p, digits: int = 3) -> str:
-    """A probability: '< 10⁻⁶' below 1e-6, '1 − x' close to one (so 0.99999 never rounds to a false 1.00)."""
+def format_probability(p, digits: int = 3, exact_zero: bool = True) -> str:
+    """A probability: '< 10⁻⁶' below 1e-6, '1 − x' close to one (so 0.99999 never rounds to a false 1.00).
+    exact_zero: a 0 is a true zero (conversion below the pair threshold) and reads '0'; if False, the quantity
+    is never zero (a transmission exp(-mu x) that underflowed) and 0 reads '< 10⁻⁶'."""
     if p is None or (isinstance(p, float) and not math.isfinite(p)):
         return "—"
     if p <= 0 or p < PROBABILITY_FLOOR:
-        return "0" if p == 0 else "&lt; 10⁻⁶"
+        return "0" if p == 0 and exact_zero else "&lt; 10⁻⁶"
     if p >= 1:
         return "1"
     if 1 - p < PROBABILITY_FLOOR:
@@ -170,7 +172,7 @@ def environment(cache_dir=None) -> jinja2.Environment:
     env.filters["exact"] = lambda v, d=6: Markup(format_number(v, d, trim=True))
     env.filters["distance"] = lambda v, d=3, exact=False: Markup(format_length(v, d, exact))
     env.filters["mom"] = lambda v, d=3, exact=False: Markup(format_momentum(v, d, exact))
-    env.filters["prob"] = lambda v, d=3: Markup(format_probability(v, d))
+    env.filters["prob"] = lambda v, d=3, exact_zero=True: Markup(format_probability(v, d, exact_zero))
     env.filters["keynum"] = lambda v, d=4: Markup(format_key_number(v, d))
     env.filters["pgrid"] = lambda v, grid, d=3: Markup(format_grid_momentum(v, grid, d))
     env.filters["species"] = lambda v: Markup(species_html(v))

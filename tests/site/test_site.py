@@ -119,3 +119,17 @@ def test_range_figure_names_only_the_species_it_draws(built):
     svg = (built[0] / "fig" / "range-crystal.svg").read_text()
     assert "$e^{-}$" not in svg and "$e^{+}$" not in svg and "$\\mu^{-}$" in svg
     assert "$e^{-}$" in (built[0] / "fig" / "range-beryllium.svg").read_text()  # E_c above 100 MeV: drawn
+
+
+def test_a_transmission_that_underflows_reads_below_the_floor_not_zero(built):
+    # 100 keV photons through 22 cm of lead tungstate: exp(-mu x) is about e^-790, 0.0 in floating point; a
+    # transmission is never exactly zero, while a conversion probability below the pair threshold is
+    from refgen.render import format_probability
+    assert format_probability(0.0) == "0"
+    assert format_probability(0.0, exact_zero=False) == "&lt; 10⁻⁶"
+    assert format_probability(0.5, exact_zero=False) == "0.500"
+    html = (built[0] / "photons.html").read_text()
+    row = re.search(r"<tr><td>crystal-calorimeter</td>(.*?)</tr>", html).group(1)
+    cells = re.findall(r'<td class="r">(.*?)</td>', row)
+    assert cells[:2] == ["0", "0"]          # conversion at 0.1 and 1 MeV: below the threshold, truly zero
+    assert cells[5] == "&lt; 10⁻⁶"          # transmission at 0.1 MeV
