@@ -117,6 +117,28 @@ def free_electron_energy_loss(t_mev):
     return np.exp(_free_electron_interpolator()(x))
 
 
+def _photon_energy_integrals(t, z: int):
+    """The k-integrals (units alpha r_e^2 m_e c^2, t = T / m_e c^2 an array) of the nucleus term in its two forms,
+    low (Koch-Motz 3BN, Elwert factor, screening ratio) and high (Tsai with the Coulomb correction), and of Tsai's
+    screened electron term."""
+    e0 = (t + 1.0)[:, None]
+    k = t[:, None] * 0.5 * (_U_NODES + 1.0)[None, :]
+    wk = t[:, None] * 0.5 * _U_WEIGHTS[None, :]
+    nucleus, electrons, unscreened, a1 = tsai_brackets(e0, k, z)
+    high = z * z * np.sum(wk * np.maximum(nucleus - 4.0 * float(coulomb_correction(z)) * a1, 0.0), axis=1)
+    low = z * z * np.sum(wk * three_bn(e0, k) * elwert_factor(e0, k, z) * np.clip(nucleus / unscreened, 0.0, 1.0),
+                         axis=1)
+    return low, high, z * np.sum(wk * np.maximum(electrons, 0.0), axis=1)
+
+
+def nucleus_form_ratio(t_mev, z: int):
+    """Low-energy over high-energy form of the nucleus term's energy-loss integral at kinetic energies t_mev:
+    how far the two forms that the seam MATCH_LOW_MEV - MATCH_HIGH_MEV joins disagree (methods.csv states it as
+    the uncertainty of high-Z values inside the seam)."""
+    low, high, _ = _photon_energy_integrals(np.atleast_1d(np.asarray(t_mev, dtype=float)) / electron_mass(), z)
+    return low / high
+
+
 def element_radiative_stopping(t_mev, z: int, a: float):
     """Radiative stopping power of electrons in element Z, MeV cm2/g, at kinetic energies t_mev (array):
     N_A/A times the photon-energy integral of k dsigma/dk (Gauss-Legendre, 96 nodes in k/T).
@@ -131,13 +153,7 @@ def element_radiative_stopping(t_mev, z: int, a: float):
     t = np.atleast_1d(np.asarray(t_mev, dtype=float)) / me
     e0 = (t + 1.0)[:, None]
     u = 0.5 * (_U_NODES + 1.0)
-    k = t[:, None] * u[None, :]
-    wk = t[:, None] * 0.5 * _U_WEIGHTS[None, :]
-    nucleus, electrons, unscreened, a1 = tsai_brackets(e0, k, z)
-    nucleus_high = z * z * np.sum(wk * np.maximum(nucleus - 4.0 * float(coulomb_correction(z)) * a1, 0.0), axis=1)
-    nucleus_low = z * z * np.sum(wk * three_bn(e0, k) * elwert_factor(e0, k, z)
-                                 * np.clip(nucleus / unscreened, 0.0, 1.0), axis=1)
-    electrons_high = z * np.sum(wk * np.maximum(electrons, 0.0), axis=1)
+    nucleus_low, nucleus_high, electrons_high = _photon_energy_integrals(t, z)
     # screening factor of the electron term: Tsai's screened over unscreened, up to the e-e kinematic limit k_max
     p0 = np.sqrt(e0 * e0 - 1.0)
     k_ee = (e0 - 1.0) / (e0 + 1.0 - p0) * u[None, :]
